@@ -1,0 +1,19 @@
+import { randomBytes } from 'node:crypto';
+import { rename, unlink, writeFile } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+
+/**
+ * Writes a file so that readers see either the old content or the complete new one: write a
+ * temporary file in the same folder, then rename it over the target (rename is atomic within one
+ * file system on POSIX). The temporary file is removed if anything fails.
+ */
+export async function writeFileAtomic(path: string, content: string): Promise<void> {
+  const temp = join(dirname(path), `.${basename(path)}.${randomBytes(6).toString('hex')}.tmp`);
+  try {
+    await writeFile(temp, content, { flag: 'wx' });
+    await rename(temp, path);
+  } catch (error) {
+    await unlink(temp).catch(() => undefined);
+    throw error;
+  }
+}

@@ -1,0 +1,137 @@
+import { carrierPhaseAt, carrierRadPerSampleAt, type CarrierTrack } from '../carrier/carrierTrack.js';
+
+/**
+ * One complex phasor per carrier cycle per channel.
+ *
+ * Method: a per-window three-parameter least-squares fit (IEEE Std 1057 §4.1.3.1 "three-parameter
+ * sine fit", applied per window) of y[n] ≈ I·sin Φ(n) + Q·cos Φ(n) + D over each carrier cycle,
+ * where Φ is the tracked excitation phase. A cycle is the run of samples whose carrier phase lies
+ * in [2πm, 2π(m+1)); the fit is exact for any non-integer number of samples per period (no 2f
+ * ripple) and rejects DC offsets. I is the signed in-phase amplitude (peak volts; positive = in
+ * time phase with R1-R2), Q the quadrature amplitude; a unit whose output leads the excitation by
+ * ψ gives I + jQ = A·e^{jψ}.
+ *
+ * Sines and cosines are computed exactly at each window start and stepped by a rotation within
+ * the window (≤ one period of steps, so rounding stays ~1e-14); no phase is accumulated across
+ * windows.
+ */
+export interface CyclePhasors {
+  readonly cycleCount: number;
+  /** Centre of each window in seconds from the first sample (midpoint of its first and last sample). */
+  readonly centreS: Float64Array;
+  /** First sample index of each window. */
+  readonly firstSample: Float64Array;
+  /** Number of samples in each window. */
+  readonly lengthSamples: Float64Array;
+  /** Local carrier frequency of each window, rad/sample. */
+  readonly radPerSample: Float64Array;
+  /** Carrier phase at each window centre, radians in [0, 2π) (≈ π for a reference-aligned cycle). */
+  readonly centrePhaseRad: Float64Array;
+  /** Per channel: in-phase amplitude (peak V), quadrature amplitude (peak V), DC level (V). NaN where a window held a NaN sample. */
+  readonly inPhase: readonly Float64Array[];
+  readonly quadrature: readonly Float64Array[];
+  readonly dc: readonly Float64Array[];
+}
+
+/** Window boundaries: boundary[m] = smallest sample index n with Φ(n) ≥ 2π(m0 + m). */
+export function cycleBoundaries(track: CarrierTrack, sampleCount: number): Float64Array {
+  const twoPi = 2 * Math.PI;
+  const out: number[] = [];
+  const phase0 = carrierPhaseAt(track, 0);
+  let target = Math.ceil(phase0 / twoPi) * twoPi;
+  let x = 0;
+  for (;;) {
+    // Newton steps on the continuous phase, then settle on the integer boundary.
+    for (let k = 0; k < 3; k++) {
+      const w = carrierRadPerSampleAt(track, x);
+      if (!(w > 0)) return Float64Array.from(out);
+      x += (target - carrierPhaseAt(track, x)) / w;
+    }
+    let n = Math.ceil(x);
+    while (n > 0 && carrierPhaseAt(track, n - 1) >= target) n--;
+    while (carrierPhaseAt(track, n) < target) n++;
+    if (n >= sampleCount) break;
+    out.push(n);
+    target += twoPi;
+  }
+  return Float64Array.from(out);
+}
+
+export function demodulateCycles(
+  channels: readonly ArrayLike<number>[],
+  track: CarrierTrack,
+  sampleCount: number,
+): CyclePhasors {
+  const bounds = cycleBoundaries(track, sampleCount);
+  const cycles = Math.max(0, bounds.length - 1);
+  const centreS = new Float64Array(cycles);
+  const firstSample = new Float64Array(cycles);
+  const lengthSamples = new Float64Array(cycles);
+  const radPerSample = new Float64Array(cycles);
+  const centrePhaseRad = new Float64Array(cycles);
+  const inPhase = channels.map(() => new Float64Array(cycles));
+  const quadrature = channels.map(() => new Float64Array(cycles));
+  const dc = channels.map(() => new Float64Array(cycles));
+
+  let maxLength = 0;
+  for (let m = 0; m < cycles; m++) maxLength = Math.max(maxLength, bounds[m + 1]! - bounds[m]!);
+  const sinBuf = new Float64Array(maxLength);
+  const cosBuf = new Float64Array(maxLength);
+
+  for (let m = 0; m < cycles; m++) {
+    const start = bounds[m]!;
+    const length = bounds[m + 1]! - start;
+    const startPhase = carrierPhaseAt(track, start);
+    const endPhase = carrierPhaseAt(track, start + length - 1);
+    const w = length > 1 ? (endPhase - startPhase) / (length - 1) : carrierRadPerSampleAt(track, start);
+    const cw = Math.cos(w);
+    const sw = Math.sin(w);
+    let s = Math.sin(startPhase);
+    let c = Math.cos(startPhase);
+    let ss = 0, sc = 0, cc = 0, s1 = 0, c1 = 0;
+    for (let i = 0; i < length; i++) {
+      sinBuf[i] = s;
+      cosBuf[i] = c;
+      ss += s * s;
+      sc += s * c;
+      cc += c * c;
+      s1 += s;
+      c1 += c;
+      const sNext = s * cw + c * sw;
+      c = c * cw - s * sw;
+      s = sNext;
+    }
+    // Inverse of the symmetric 3x3 normal matrix [[ss, sc, s1], [sc, cc, c1], [s1, c1, L]].
+    const L = length;
+    const a00 = cc * L - c1 * c1;
+    const a01 = -(sc * L - s1 * c1);
+    const a02 = sc * c1 - s1 * cc;
+    const a11 = ss * L - s1 * s1;
+    const a12 = -(ss * c1 - sc * s1);
+    const a22 = ss * cc - sc * sc;
+    const det = ss * a00 + sc * a01 + s1 * a02;
+    const inv = 1 / det;
+
+    for (let ch = 0; ch < channels.length; ch++) {
+      const x = channels[ch]!;
+      let xs = 0, xc = 0, x1 = 0;
+      for (let i = 0; i < length; i++) {
+        const v = x[start + i]!;
+        xs += v * sinBuf[i]!;
+        xc += v * cosBuf[i]!;
+        x1 += v;
+      }
+      inPhase[ch]![m] = (a00 * xs + a01 * xc + a02 * x1) * inv;
+      quadrature[ch]![m] = (a01 * xs + a11 * xc + a12 * x1) * inv;
+      dc[ch]![m] = (a02 * xs + a12 * xc + a22 * x1) * inv;
+    }
+    firstSample[m] = start;
+    lengthSamples[m] = length;
+    radPerSample[m] = w;
+    const centre = start + (length - 1) / 2;
+    centreS[m] = centre / track.sampleRateHz;
+    const phase = carrierPhaseAt(track, centre) % (2 * Math.PI);
+    centrePhaseRad[m] = phase < 0 ? phase + 2 * Math.PI : phase;
+  }
+  return { cycleCount: cycles, centreS, firstSample, lengthSamples, radPerSample, centrePhaseRad, inPhase, quadrature, dc };
+}

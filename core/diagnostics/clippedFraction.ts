@@ -1,0 +1,32 @@
+/**
+ * Fraction of samples that sit on a flat top at the channel's extreme values: runs of equal
+ * samples at the minimum or maximum at least max(4, P/20) long, where P is samples per carrier
+ * period. An unclipped sine sampled at P points per period and quantised at 8 bits stays on its
+ * top code for only a few samples, so shorter runs are not counted (common practice, no source).
+ */
+export function clippedFraction(samples: Float32Array, sampleCount: number, samplesPerPeriod: number): number {
+  if (sampleCount === 0) return 0;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < sampleCount; i++) {
+    const v = samples[i]!;
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  if (!(hi > lo)) return 0;
+  const minRun = Math.max(4, Math.round(samplesPerPeriod / 20));
+  let clipped = 0;
+  let run = 0;
+  let runValue = NaN;
+  for (let i = 0; i <= sampleCount; i++) {
+    const v = i < sampleCount ? samples[i]! : NaN;
+    if (v === runValue) {
+      run++;
+      continue;
+    }
+    if ((runValue === lo || runValue === hi) && run >= minRun) clipped += run;
+    runValue = v;
+    run = 1;
+  }
+  return clipped / sampleCount;
+}
