@@ -47,6 +47,9 @@ export function assignRoles(capture: Capture, options: RoleOptions = {}): RoleAs
         `--roles: no channel "${selector}" for ${roleText}; the channels are ${capture.channels.map((c, i) => `ch${i + 1} "${c.label}"`).join(', ')}`,
       );
     }
+    if (basis[index] === 'user') {
+      throw new CaptureError(`--roles: channel "${selector}" is given two roles; give each channel one role`);
+    }
     roles[index] = role;
     basis[index] = 'user';
   }
