@@ -65,24 +65,22 @@ describe('sine-fit model and properties (IEEE Std 1057 model; invariances as in 
     expect(fit.residualRms).toBeLessThan(1e-12);
   });
 
-  it('shifting the start by m samples shifts the phase by exactly ω·m/fs and leaves f unchanged', () => {
+  it('time origin: the same samples fitted at another index give the same fit; a later start shifts the phase by exactly ω·m/fs', () => {
     const rnd = createRandom(11);
     const x = Float64Array.from(sine(n, fs, f, 1, 0.2), (v) => v + 0.01 * rnd.normal());
     const m = 777;
     const a = fitSine4(x, fs, f, { start: 0, length: 3000 });
-    const b = fitSine4(x, fs, f, { start: m, length: 3000 });
-    const c = fitSine4(x, fs, f, { start: m, length: 3000 });
-    expect(b).toEqual(c);
-    // Different data windows: the two fits differ by noise only, so compare with the window
-    // held fixed instead: same samples, fitted as a sub-range of a longer array.
     const shifted = new Float64Array(n + m);
     shifted.set(x, m);
     const d = fitSine4(shifted, fs, f, { start: m, length: 3000 });
-    expect(d.frequencyHz).toBe(a.frequencyHz);
-    expect(d.phaseRad).toBeCloseTo(a.phaseRad, 12);
-    const onWholeRecord = fitSine3(x, fs, a.frequencyHz);
-    const onTail = fitSine3(x, fs, a.frequencyHz, m, n - m);
-    expect(wrap(onTail.phaseRad - onWholeRecord.phaseRad - (2 * Math.PI * a.frequencyHz * m) / fs)).toBeCloseTo(0, 2);
+    expect(d.frequencyHz).toBeCloseTo(a.frequencyHz, 10);
+    expect(d.phaseRad).toBeCloseTo(a.phaseRad, 10);
+    expect(d.residualRms).toBeCloseTo(a.residualRms, 14);
+    // Noise-free tone: the tail's phase is the head's advanced by ω·m/fs.
+    const clean = sine(n, fs, f, 1, 0.2);
+    const head = fitSine4(clean, fs, f * 1.001, { start: 0, length: 3000 });
+    const tail = fitSine4(clean, fs, f * 1.001, { start: m, length: 3000 });
+    expect(wrap(tail.phaseRad - head.phaseRad - (2 * Math.PI * f * m) / fs)).toBeCloseTo(0, 10);
   });
 
   it('adding a constant changes only the offset; scaling scales a, b, c and the residual', () => {
@@ -155,7 +153,7 @@ describe('sine-fit model and properties (IEEE Std 1057 model; invariances as in 
     expect(one.iterations).toBe(1);
     expect(one.converged).toBe(false);
     const zero = fitSine4(x, 1024, 50.6, { maxIterations: 0 });
-    expect(zero.frequencyHz).toBe(50.6);
+    expect(zero.frequencyHz).toBeCloseTo(50.6, 12);
     expect(zero.converged).toBe(false);
     const full = fitSine4(x, 1024, 50.6);
     expect(full.converged).toBe(true);

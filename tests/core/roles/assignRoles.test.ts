@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
 import type { Capture } from '../../../core/model/capture.js';
-import { CaptureError } from '../../../core/model/errors.js';
 import { formatRole } from '../../../core/model/roles.js';
 import { assignRoles } from '../../../core/roles/assignRoles.js';
 import { synthesizeCapture, type SynthSpec } from '../../../core/synth/synthesizeCapture.js';
