@@ -1,9 +1,10 @@
+import { solveSymmetric } from '../dsp/linearSolve.js';
 import { InvariantError } from '../model/errors.js';
 
 /**
  * Weighted least-squares polynomial in a centred, scaled abscissa u ∈ [−1, 1] (normal equations
- * solved by Gaussian elimination with partial pivoting; the scaling keeps them well conditioned
- * up to the low degrees used here). Degree chosen by the Bayesian information criterion
+ * solved by the equilibrated Cholesky of core/dsp/linearSolve; the scaling keeps them well
+ * conditioned up to the low degrees used here). Degree chosen by the Bayesian information criterion
  * (Schwarz, "Estimating the dimension of a model", Ann. Statist. 6(2), 1978) between minDegree
  * and maxDegree.
  */
@@ -40,7 +41,7 @@ export function fitPolynomial(
       for (let c = 0; c < k; c++) ata[r * k + c] += w * powers[r + c]!;
     }
   }
-  const coefficients = solveSquare(ata, aty, k);
+  const coefficients = Array.from(solveSymmetric(ata, aty, k).x);
   let rss = 0;
   for (let i = 0; i < u.length; i++) {
     const w = weights ? weights[i]! : 1;
@@ -73,38 +74,4 @@ export function fitPolynomialBic(
   }
   if (!best) throw new InvariantError('fitPolynomialBic needs at least minDegree + 2 points');
   return best;
-}
-
-function solveSquare(a: Float64Array, b: Float64Array, k: number): number[] {
-  const m = Float64Array.from(a);
-  const x = Float64Array.from(b);
-  for (let col = 0; col < k; col++) {
-    let pivot = col;
-    for (let r = col + 1; r < k; r++) if (Math.abs(m[r * k + col]!) > Math.abs(m[pivot * k + col]!)) pivot = r;
-    if (pivot !== col) {
-      for (let c = 0; c < k; c++) {
-        const t = m[col * k + c]!;
-        m[col * k + c] = m[pivot * k + c]!;
-        m[pivot * k + c] = t;
-      }
-      const t = x[col]!;
-      x[col] = x[pivot]!;
-      x[pivot] = t;
-    }
-    const d = m[col * k + col]!;
-    if (d === 0) return new Array<number>(k).fill(NaN);
-    for (let r = col + 1; r < k; r++) {
-      const f = m[r * k + col]! / d;
-      if (f === 0) continue;
-      for (let c = col; c < k; c++) m[r * k + c] -= f * m[col * k + c]!;
-      x[r] -= f * x[col]!;
-    }
-  }
-  const out = new Array<number>(k).fill(0);
-  for (let r = k - 1; r >= 0; r--) {
-    let s = x[r]!;
-    for (let c = r + 1; c < k; c++) s -= m[r * k + c]! * out[c]!;
-    out[r] = s / m[r * k + r]!;
-  }
-  return out;
 }
