@@ -14,6 +14,9 @@ import { parseCliArgs, USAGE, UsageError, type AnalyzeCommand } from './parseCli
 import { readCaptureFile } from './readCaptureFile.js';
 import { writeFileAtomic } from './writeFileAtomic.js';
 
+/** A CaptureError already phrased with its file and location. */
+class FileCaptureError extends Error {}
+
 export interface CliIo {
   readonly stdout: (text: string) => void;
   readonly stderr: (text: string) => void;
@@ -39,7 +42,7 @@ export async function runCli(argv: readonly string[], io: CliIo): Promise<number
       io.stderr(`statorscope: ${error.message}\n`);
       return 2;
     }
-    if (error instanceof CaptureError) {
+    if (error instanceof FileCaptureError || error instanceof CaptureError) {
       io.stderr(`statorscope: ${error.message}\n`);
       return 1;
     }
@@ -62,16 +65,17 @@ async function analyze(command: AnalyzeCommand, io: CliIo): Promise<void> {
     }
   }
   let imported;
+  let analysis: Analysis;
   try {
     imported = await readCaptureFile(input);
+    analysis = analyzeCapture(imported.capture, {
+      ...(command.roles ? { overrides: command.roles } : {}),
+      ...(command.kind ? { kind: command.kind } : {}),
+    });
   } catch (error) {
-    if (error instanceof CaptureError) throw new CaptureError(`${file}: ${error.message}`);
+    if (error instanceof CaptureError) throw new FileCaptureError(error.describeIn(file));
     throw error;
   }
-  const analysis: Analysis = analyzeCapture(imported.capture, {
-    ...(command.roles ? { overrides: command.roles } : {}),
-    ...(command.kind ? { kind: command.kind } : {}),
-  });
   const withImport: Analysis = { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
   const meta = { file: basename(file), version: io.version };
 

@@ -7,10 +7,19 @@ import type { SourceLocation } from './findings.js';
 export class CaptureError extends Error {
   override readonly name = 'CaptureError';
   readonly at: SourceLocation | undefined;
+  /** The message without the location. */
+  readonly detail: string;
 
   constructor(message: string, at?: SourceLocation) {
     super(at ? `${message} (line ${at.line}${at.column !== undefined ? `, column ${at.column}` : ''})` : message);
     this.at = at;
+    this.detail = message;
+  }
+
+  /** "file:line:column: detail", the form editors and terminals link to. */
+  describeIn(file: string): string {
+    if (!this.at) return `${file}: ${this.detail}`;
+    return `${file}:${this.at.line}${this.at.column !== undefined ? `:${this.at.column}` : ''}: ${this.detail}`;
   }
 }
 

@@ -36,7 +36,7 @@ export function formatSummary(analysis: Analysis, meta: ReportMeta): string {
 
 function formatUnit(unit: UnitResult, named: boolean): string[] {
   const out: string[] = [];
-  const how = unit.method === 'three-lines' ? 'three lines' : unit.method === 'two-lines' ? 'two lines, third by Kirchhoff' : unit.method ?? '';
+  const how = unit.method === 'three-lines' ? 'three lines' : unit.method === 'two-lines' ? 'two lines, third by Kirchhoff' : '';
   const tr = unit.transformationRatio !== null ? `transformation ratio ${unit.transformationRatio.toFixed(4)}` : 'transformation ratio n/a';
   const lead = unit.phaseLeadDeg !== null ? `phase lead ${unit.phaseLeadDeg.toFixed(2)}°` : 'phase lead n/a';
   out.push(`  unit       ${named ? `${unit.id}: ` : ''}${unit.kind}${how ? ` (${how})` : ''}; ${tr}, ${lead}`);

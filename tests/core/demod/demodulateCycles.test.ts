@@ -101,7 +101,7 @@ function resolverSpec(thetaDeg: number, extra: Partial<SynthSpec> = {}, leadDeg 
 
 function decode(spec: SynthSpec, tweak?: (channels: Float64Array[]) => Float64Array[]): Float64Array {
   const syn = synthesizeCapture(spec);
-  let channels = syn.capture.channels.map((ch) => Float64Array.from(ch.samples));
+  let channels: Float64Array[] = syn.capture.channels.map((ch) => Float64Array.from(ch.samples));
   if (tweak) channels = tweak(channels);
   const n = syn.capture.sampleCount;
   const ph = demodulateCycles(channels, constantCarrierTrack(spec.sampleRateHz, spec.carrier.frequencyHz, 0, n), n);
