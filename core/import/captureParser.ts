@@ -1,0 +1,348 @@
+import type { Capture, CaptureChannel } from '../model/capture.js';
+import { CaptureError } from '../model/errors.js';
+import { finding, type Finding } from '../model/findings.js';
+import { LineFindingCollector } from './collectLineFindings.js';
+import { COLUMN_CHANNEL, COLUMN_IGNORED, COLUMN_TIME, NumericBodyParser, type BodyPlan } from './parseNumericBody.js';
+import { SNIFF_BYTES, sniffCaptureLayout, type SniffedLayout } from './sniffCaptureLayout.js';
+import { TimebaseTracker } from './trackTimebase.js';
+import { Utf16ToUtf8 } from './transcodeUtf16.js';
+
+export interface ImportOptions {
+  /** Override the sniffed field delimiter. */
+  delimiter?: ',' | ';' | '\t';
+  /** Override the sniffed decimal mark. */
+  decimalMark?: '.' | ',';
+  /** Refuse (CaptureError) a file with more rows than this per channel. */
+  maxSamples?: number;
+  /** Sample rate in hertz to use when the file has neither a time column nor a preamble interval. */
+  sampleRateHz?: number;
+}
+
+export interface CaptureLayout {
+  delimiter: ',' | ';' | '\t' | ' ';
+  decimalMark: '.' | ',';
+  bom: boolean;
+  lineEnding: 'lf' | 'crlf' | 'cr';
+  /** Key/value lines before the header (keys as written). */
+  preamble: Record<string, string>;
+  /** 1-based line number of the label row, null if none. */
+  headerLine: number | null;
+  /** 1-based line number of the units row, null if none. */
+  unitsLine: number | null;
+  /** 1-based line number of the first data row. */
+  firstDataLine: number;
+  /** Zero-based column index of the time column, null when the file has none. */
+  timeColumn: number | null;
+  timeUnit: 's' | 'ms' | 'us' | null;
+  sampleIntervalSource: 'time-column' | 'preamble' | 'none';
+}
+
+export interface ImportResult {
+  capture: Capture;
+  layout: CaptureLayout;
+  findings: Finding[];
+}
+
+export interface CaptureParser {
+  /** Feeds the next bytes of the file; chunks may split lines, numbers or UTF-8 characters anywhere. */
+  push(chunk: Uint8Array): void;
+  /** Ends the input. Throws CaptureError for an unusable file. */
+  finish(): ImportResult;
+}
+
+/** Relative disagreement between a preamble interval and the time column worth a finding. */
+const INTERVAL_MISMATCH = 1e-3;
+
+/** Size of the slices handed to the body parser. */
+const REGION_BYTES = 64 * 1024;
+
+const DELIMITER_BYTE = { ',': 44, ';': 59, '\t': 9, ' ': 32 } as const;
+
+/**
+ * Streaming import of an oscilloscope CSV capture: sniffs the layout from the first 64 KiB
+ * (delimiter, decimal mark, preamble, header, units row, time column), then parses the numeric
+ * body byte by byte into Float32 columns (see NumericBodyParser). The sample interval comes from
+ * a least-squares line over the whole time column (TimebaseTracker) or from the preamble.
+ */
+export function createCaptureParser(options: ImportOptions = {}): CaptureParser {
+  checkOptions(options);
+  return new StreamingCaptureParser(options);
+}
+
+/** Parses one complete file given as bytes; same result as pushing it in chunks. */
+export function parseCaptureBytes(bytes: Uint8Array, options?: ImportOptions): ImportResult {
+  const parser = createCaptureParser(options);
+  parser.push(bytes);
+  return parser.finish();
+}
+
+function checkOptions(o: ImportOptions): void {
+  if (o === null || typeof o !== 'object') throw new TypeError('options must be an object');
+  if (o.delimiter !== undefined && !(o.delimiter === ',' || o.delimiter === ';' || o.delimiter === '\t')) {
+    throw new RangeError(`options.delimiter must be ",", ";" or "\\t", not ${JSON.stringify(o.delimiter)}`);
+  }
+  if (o.decimalMark !== undefined && o.decimalMark !== '.' && o.decimalMark !== ',') {
+    throw new RangeError(`options.decimalMark must be "." or ",", not ${JSON.stringify(o.decimalMark)}`);
+  }
+  if (o.delimiter === ',' && o.decimalMark === ',') throw new RangeError('options.delimiter and options.decimalMark cannot both be ","');
+  if (o.maxSamples !== undefined && !(Number.isInteger(o.maxSamples) && o.maxSamples >= 1)) {
+    throw new RangeError(`options.maxSamples must be a positive integer, not ${o.maxSamples}`);
+  }
+  if (o.sampleRateHz !== undefined && !(Number.isFinite(o.sampleRateHz) && o.sampleRateHz > 0)) {
+    throw new RangeError(`options.sampleRateHz must be a positive finite number, not ${o.sampleRateHz}`);
+  }
+}
+
+class StreamingCaptureParser implements CaptureParser {
+  private readonly head: Uint8Array[] = [];
+  private headBytes = 0;
+  private sniffed: SniffedLayout | undefined;
+  private body: NumericBodyParser | undefined;
+  private timebase: TimebaseTracker | undefined;
+  private readonly findings = new LineFindingCollector(5);
+  private error: CaptureError | undefined;
+  private transcoder: Utf16ToUtf8 | undefined;
+  private encoding: 'utf-8' | 'utf-16le' | 'utf-16be' = 'utf-8';
+  private bom = false;
+  private carry = new Uint8Array(256);
+  private carryLength = 0;
+  private finished = false;
+
+  private readonly options: ImportOptions;
+
+  constructor(options: ImportOptions) {
+    this.options = options;
+  }
+
+  push(chunk: Uint8Array): void {
+    if (!(chunk instanceof Uint8Array)) throw new TypeError('push() takes a Uint8Array');
+    if (this.finished) throw new RangeError('push() called after finish()');
+    if (this.error !== undefined || chunk.length === 0) return;
+    if (this.body === undefined) {
+      this.head.push(chunk.slice());
+      this.headBytes += chunk.length;
+      if (this.headBytes >= SNIFF_BYTES + 4) this.sniff(false);
+      return;
+    }
+    this.feed(this.transcoder ? this.transcoder.push(chunk) : chunk);
+  }
+
+  finish(): ImportResult {
+    if (this.finished) throw new RangeError('finish() called twice');
+    this.finished = true;
+    if (this.error === undefined && this.body === undefined) {
+      if (this.headBytes === 0) this.error = new CaptureError('The file is empty (0 bytes). Export the capture again as CSV', { line: 1 });
+      else this.sniff(true);
+    }
+    if (this.error !== undefined) throw this.error;
+    if (this.transcoder) this.feed(this.transcoder.finish());
+    if (this.carryLength > 0) {
+      this.appendCarry(new Uint8Array([10]));
+      this.body!.parseRegion(this.carry, 0, this.carryLength);
+      this.carryLength = 0;
+    }
+    return this.result();
+  }
+
+  private sniff(final: boolean): void {
+    let buf: Uint8Array;
+    if (this.head.length === 1) buf = this.head[0];
+    else {
+      buf = new Uint8Array(this.headBytes);
+      let o = 0;
+      for (const h of this.head) {
+        buf.set(h, o);
+        o += h.length;
+      }
+    }
+    this.head.length = 0;
+    let start = 0;
+    if (buf.length >= 3 && buf[0] === 0xef && buf[1] === 0xbb && buf[2] === 0xbf) {
+      start = 3;
+      this.bom = true;
+    } else if (buf.length >= 2 && ((buf[0] === 0xff && buf[1] === 0xfe) || (buf[0] === 0xfe && buf[1] === 0xff))) {
+      const le = buf[0] === 0xff;
+      this.bom = true;
+      this.encoding = le ? 'utf-16le' : 'utf-16be';
+      this.transcoder = new Utf16ToUtf8(le);
+      const converted = this.transcoder.push(buf.subarray(2));
+      if (final) {
+        const rest = this.transcoder.finish();
+        buf = new Uint8Array(converted.length + rest.length);
+        buf.set(converted);
+        buf.set(rest, converted.length);
+      } else buf = converted.slice();
+    }
+    try {
+      this.sniffed = sniffCaptureLayout(buf, start, final, this.options);
+    } catch (e) {
+      if (e instanceof CaptureError) {
+        this.error = e;
+        return;
+      }
+      throw e;
+    }
+    const s = this.sniffed;
+    const columnCount = s.columns.length;
+    const kinds = new Uint8Array(columnCount);
+    const scales = new Float64Array(columnCount);
+    s.columns.forEach((c, k) => {
+      kinds[k] = c.kind === 'channel' ? COLUMN_CHANNEL : c.kind === 'time' ? COLUMN_TIME : COLUMN_IGNORED;
+      scales[k] = c.factor;
+    });
+    const plan: BodyPlan = {
+      delimiter: DELIMITER_BYTE[s.delimiter],
+      decimalMark: s.decimalMark === ',' ? 44 : 46,
+      columnCount,
+      kinds,
+      scales,
+      labels: s.columns.map((c) => c.label),
+      timeFactorS: s.timeFactorS,
+      firstLine: s.firstDataLine,
+      expectedRows: s.facts.recordLength ?? 0,
+      maxSamples: this.options.maxSamples ?? Infinity,
+    };
+    if (s.timeColumn !== null) this.timebase = new TimebaseTracker(s.referenceIntervalS, this.findings);
+    this.body = new NumericBodyParser(plan, this.findings, this.timebase);
+    this.feed(buf.subarray(s.dataOffset));
+  }
+
+  private appendCarry(bytes: Uint8Array): void {
+    const need = this.carryLength + bytes.length;
+    if (need > this.carry.length) {
+      const grown = new Uint8Array(Math.max(need, this.carry.length * 2));
+      grown.set(this.carry.subarray(0, this.carryLength));
+      this.carry = grown;
+    }
+    this.carry.set(bytes, this.carryLength);
+    this.carryLength = need;
+  }
+
+  /** Hands complete lines to the body parser; keeps a trailing partial line for the next chunk. */
+  private feed(chunk: Uint8Array): void {
+    const n = chunk.length;
+    if (n === 0) return;
+    let last = n - 1;
+    while (last >= 0 && chunk[last] !== 10 && chunk[last] !== 13) last--;
+    if (last < 0) {
+      this.appendCarry(chunk);
+      return;
+    }
+    const body = this.body!;
+    let from = 0;
+    if (this.carryLength > 0) {
+      let first = 0;
+      while (chunk[first] !== 10 && chunk[first] !== 13) first++;
+      this.appendCarry(chunk.subarray(0, first + 1));
+      body.parseRegion(this.carry, 0, this.carryLength);
+      this.carryLength = 0;
+      from = first + 1;
+    }
+    // Slices of at most ~64 KiB, each ending at a line break: the hot loop is then entered often
+    // enough for the JIT to optimise the whole function, not just the loop (on-stack replacement).
+    const end = last + 1;
+    while (from < end) {
+      let cut = from + REGION_BYTES;
+      if (cut >= end) cut = end;
+      else {
+        while (cut > from && chunk[cut - 1] !== 10 && chunk[cut - 1] !== 13) cut--;
+        if (cut === from) cut = end;
+      }
+      body.parseRegion(chunk, from, cut);
+      from = cut;
+    }
+    if (end < n) this.appendCarry(chunk.subarray(end));
+  }
+
+  private result(): ImportResult {
+    const s = this.sniffed!;
+    const body = this.body!;
+    const rows = body.rows;
+    const findings: Finding[] = [...s.findings];
+    if (this.encoding !== 'utf-8') {
+      findings.push(finding('text-encoding', 'info', `The file is ${this.encoding === 'utf-16le' ? 'UTF-16LE' : 'UTF-16BE'} text; it was converted to UTF-8 for reading.`));
+    }
+    if (body.limitLine > 0 && body.countedRows > 0) {
+      throw new CaptureError(
+        `The capture has ${rows + body.countedRows} samples per channel, more than the limit of ${this.options.maxSamples}; export a shorter record or raise the limit`,
+        { line: body.limitLine },
+      );
+    }
+    if (rows === 0) {
+      throw new CaptureError('No rows of numbers found after the header; export the capture with its sample values', { line: s.firstDataLine });
+    }
+    if (rows === 1) {
+      throw new CaptureError('The capture has only one data row; at least two samples are needed. Export a longer record', { line: s.firstDataLine });
+    }
+    const channelColumns = s.columns.map((c, k) => ({ c, k })).filter(({ c }) => c.kind === 'channel');
+    if (channelColumns.length === 0) {
+      throw new CaptureError('The file has no signal columns (only a time column); export the channels with the capture', { line: s.headerLine ?? s.firstDataLine });
+    }
+
+    let sampleRateHz: number;
+    let startS = 0;
+    let source: CaptureLayout['sampleIntervalSource'];
+    const facts = s.facts;
+    const preambleIntervalS = facts.intervalS ?? (facts.rateHz !== undefined ? 1 / facts.rateHz : undefined);
+    const preambleLine = facts.intervalS !== undefined ? facts.intervalLine : facts.rateLine;
+    if (this.timebase) {
+      const fit = this.timebase.fit();
+      const where = { line: s.firstDataLine, column: (s.timeColumn ?? 0) + 1 };
+      if (fit === undefined) {
+        throw new CaptureError('The time column has fewer than two numeric time stamps, so the sample rate is unknown; fix the time column or remove it and add a "Sample Interval" line', where);
+      }
+      if (!(fit.intervalS > 0) || !Number.isFinite(fit.intervalS)) {
+        throw new CaptureError('The time column does not increase, so the sample rate is unknown; check that the first column is time, or export the time base', where);
+      }
+      sampleRateHz = 1 / fit.intervalS;
+      startS = fit.startS;
+      source = 'time-column';
+      if (preambleIntervalS !== undefined && Math.abs(preambleIntervalS / fit.intervalS - 1) > INTERVAL_MISMATCH) {
+        findings.push(finding('sample-interval-mismatch', 'warning',
+          `The preamble gives a sample interval of ${preambleIntervalS} s but the time column spaces samples ${fit.intervalS.toPrecision(6)} s apart; the time column is used.`,
+          { figures: { preambleIntervalS, timeColumnIntervalS: fit.intervalS }, ...(preambleLine !== undefined ? { at: { line: preambleLine } } : {}) }));
+      }
+      if (this.timebase.missing > 0) {
+        findings.push(finding('uneven-sampling', 'warning', `${this.timebase.missing} time stamps are not numbers; those samples are kept but left out of the sample-rate fit.`, { figures: { count: this.timebase.missing } }));
+      }
+    } else if (preambleIntervalS !== undefined) {
+      sampleRateHz = facts.intervalS !== undefined ? 1 / facts.intervalS : facts.rateHz!;
+      startS = facts.startS ?? 0;
+      source = 'preamble';
+    } else if (this.options.sampleRateHz !== undefined) {
+      sampleRateHz = this.options.sampleRateHz;
+      source = 'none';
+    } else {
+      throw new CaptureError(
+        'The sample rate is unknown: the file has no time column and no "Sample Interval" line. Add a time column, or a line such as "Sample Interval,1.0E-05" (seconds) before the header, or give the sample rate',
+        { line: s.headerLine ?? s.firstDataLine },
+      );
+    }
+    if (this.options.sampleRateHz !== undefined && source !== 'none') {
+      findings.push(finding('sample-rate-option-ignored', 'info', `The file gives the sample rate (${sampleRateHz} Hz); the sample rate passed in (${this.options.sampleRateHz} Hz) is not used.`));
+    }
+    if (facts.recordLength !== undefined && facts.recordLength !== rows) {
+      findings.push(finding('record-length-mismatch', 'info', `The preamble announces ${facts.recordLength} points but the file holds ${rows} rows.`, { figures: { announced: facts.recordLength, rows } }));
+    }
+
+    const channels: CaptureChannel[] = channelColumns.map(({ c, k }) => {
+      const column = body.columns[k];
+      return { column: k, label: c.label, unit: c.unit, samples: column.length === rows ? column : column.slice(0, rows) };
+    });
+    const capture: Capture = { sampleRateHz, startS, sampleCount: rows, channels };
+    const layout: CaptureLayout = {
+      delimiter: s.delimiter,
+      decimalMark: s.decimalMark,
+      bom: this.bom,
+      lineEnding: s.lineEnding,
+      preamble: s.preamble,
+      headerLine: s.headerLine,
+      unitsLine: s.unitsLine,
+      firstDataLine: s.firstDataLine,
+      timeColumn: s.timeColumn,
+      timeUnit: s.timeUnit,
+      sampleIntervalSource: source,
+    };
+    return { capture, layout, findings: [...findings, ...this.findings.result()] };
+  }
+}

@@ -1,0 +1,375 @@
+import { composeDecimal } from './composeDecimal.js';
+import { decodeUtf8 } from './decodeUtf8.js';
+import { OVERRANGE_MAGNITUDE, parseNumberText, unquoteCell } from './parseNumberText.js';
+import type { LineFindingCollector } from './collectLineFindings.js';
+import type { TimebaseTracker } from './trackTimebase.js';
+
+/** What the body parser does with each column of the file. */
+export const COLUMN_CHANNEL = 0;
+export const COLUMN_TIME = 1;
+export const COLUMN_IGNORED = 2;
+
+export interface BodyPlan {
+  readonly delimiter: number; // byte: 44 ',', 59 ';', 9 tab, 32 space
+  readonly decimalMark: number; // byte: 46 '.', 44 ','
+  /** Number of real columns (a trailing empty column from a trailing delimiter is not counted). */
+  readonly columnCount: number;
+  /** COLUMN_CHANNEL / COLUMN_TIME / COLUMN_IGNORED per column. */
+  readonly kinds: Uint8Array;
+  /** Factor to the base unit per column (1e-3 for a column in mV). */
+  readonly scales: Float64Array;
+  /** Column labels, for finding messages. */
+  readonly labels: readonly string[];
+  /** Seconds per unit of the time column. */
+  readonly timeFactorS: number;
+  /** 1-based line number of the first byte handed to the parser. */
+  readonly firstLine: number;
+  /** Rows to allocate up front (from the preamble's record length), 0 for a default. */
+  readonly expectedRows: number;
+  /** Refuse more rows than this (Infinity for no limit). */
+  readonly maxSamples: number;
+}
+
+const LF = 10;
+const CR = 13;
+const QUOTE = 34;
+const EMPTY_F32 = new Float32Array(0);
+
+/**
+ * Byte-level parser for the numeric body of a capture file: a hand-written state machine that
+ * reads cells straight from the bytes into growable Float32Array columns (capacity doubles), with
+ * no per-cell strings and no regular expressions. A cell matching the numeric grammar (sign,
+ * digits, one decimal mark, exponent) is converted by composeDecimal; anything else (quoted
+ * cells, words, overrange markers, non-ASCII) drops to a slow path that decodes that one cell.
+ *
+ * Input is handed over in regions that end just after a line terminator (LF, CR or CRLF; a CRLF
+ * split between two regions is handled), so the hot loop needs no bounds checks: every loop
+ * stops at a terminator byte. A line break inside a quoted cell ends the row here (the header,
+ * where RFC 4180 line breaks in labels do occur, is read by the sniffer instead).
+ */
+export class NumericBodyParser {
+  rows = 0;
+  private capacity: number;
+  readonly columns: Float32Array[];
+  /** Next physical line number (1-based). */
+  line: number;
+  private pendingCR = false;
+  /** Set once the row limit is passed: the rest is only counted. */
+  limitLine = 0;
+  countedRows = 0;
+  nonNumericCells = 0;
+  overrangeCells = 0;
+  emptyCells = 0;
+  raggedRows = 0;
+
+  private readonly plan: BodyPlan;
+  private readonly findings: LineFindingCollector;
+  private readonly timebase: TimebaseTracker | undefined;
+
+  constructor(plan: BodyPlan, findings: LineFindingCollector, timebase: TimebaseTracker | undefined) {
+    this.plan = plan;
+    this.findings = findings;
+    this.timebase = timebase;
+    const initial = Math.min(Math.max(16, Math.min(plan.expectedRows > 0 ? plan.expectedRows : 4096, 1 << 28)), plan.maxSamples);
+    this.capacity = initial;
+    this.columns = [];
+    for (let k = 0; k < plan.columnCount; k++) {
+      this.columns.push(plan.kinds[k] === COLUMN_CHANNEL ? new Float32Array(initial) : EMPTY_F32);
+    }
+    this.line = plan.firstLine;
+  }
+
+  private grow(): boolean {
+    if (this.capacity >= this.plan.maxSamples) return false;
+    const next = Math.min(this.capacity * 2, this.plan.maxSamples);
+    for (let k = 0; k < this.columns.length; k++) {
+      const old = this.columns[k];
+      if (old.length === 0) continue;
+      const grown = new Float32Array(next);
+      grown.set(old);
+      this.columns[k] = grown;
+    }
+    this.capacity = next;
+    return true;
+  }
+
+  /** Parses buf[start, end); buf[end - 1] must be LF or CR. */
+  parseRegion(buf: Uint8Array, start: number, end: number): void {
+    let p = start;
+    if (this.pendingCR) {
+      this.pendingCR = false;
+      if (p < end && buf[p] === LF) p++;
+    }
+    if (this.limitLine > 0) {
+      this.countRest(buf, p, end);
+      return;
+    }
+    const plan = this.plan;
+    const delim = plan.delimiter;
+    const dec = plan.decimalMark;
+    const collapse = delim === 32;
+    // Blanks around a number (never the delimiter itself); -1 never matches a byte.
+    const blankA = collapse ? -1 : 32;
+    const blankB = delim === 9 ? -1 : 9;
+    const columnCount = plan.columnCount;
+    const kinds = plan.kinds;
+    const scales = plan.scales;
+    const columns = this.columns;
+    const timebase = this.timebase;
+    const timeFactor = plan.timeFactorS;
+    let row = this.rows;
+    let line = this.line;
+    let c = 0;
+
+    while (p < end) {
+      if (row === this.capacity && !this.grow()) {
+        this.rows = row;
+        this.line = line;
+        this.limitLine = line;
+        this.countRest(buf, p, end);
+        return;
+      }
+      let col = 0;
+      let content = false;
+      let extra = false;
+      let firstEmptyCol = -1;
+      let emptyInRow = 0;
+      let timeValue = NaN;
+      let timeExp = 0;
+      c = buf[p];
+      if (collapse) while (c === 32) c = buf[++p];
+
+      for (;;) {
+        const cellStart = p;
+        while (c === blankA || c === blankB) c = buf[++p];
+        const numberStart = p;
+        let negative = false;
+        if (c === 45) {
+          negative = true;
+          c = buf[++p];
+        } else if (c === 43) {
+          c = buf[++p];
+        }
+        // Digits accumulate into a double; digit counts come from positions, so the loops do
+        // nothing else. More than 19 digits go to the (exact) slow path.
+        let mantissa = 0;
+        const intStart = p;
+        while (c >= 48 && c <= 57) {
+          mantissa = mantissa * 10 + (c - 48);
+          c = buf[++p];
+        }
+        let digits = p - intStart;
+        let exp10 = 0;
+        if (c === dec) {
+          c = buf[++p];
+          const fracStart = p;
+          while (c >= 48 && c <= 57) {
+            mantissa = mantissa * 10 + (c - 48);
+            c = buf[++p];
+          }
+          exp10 = fracStart - p;
+          digits -= exp10;
+        }
+        let ok = digits > 0 && digits <= 19;
+        if (ok && ((c | 32) === 101 || (c | 32) === 100)) {
+          c = buf[++p];
+          let expNegative = false;
+          if (c === 45) {
+            expNegative = true;
+            c = buf[++p];
+          } else if (c === 43) {
+            c = buf[++p];
+          }
+          let e = 0;
+          ok = c >= 48 && c <= 57;
+          while (c >= 48 && c <= 57) {
+            if (e < 100000) e = e * 10 + (c - 48);
+            c = buf[++p];
+          }
+          exp10 += expNegative ? -e : e;
+        }
+        while (c === blankA || c === blankB) c = buf[++p];
+        const atEnd = c === delim || c === LF || c === CR;
+        let value: number;
+        let isEmpty = false;
+        if (ok && atEnd) {
+          value = composeDecimal(mantissa, exp10);
+          if (negative) value = -value;
+          if (!(value < OVERRANGE_MAGNITUDE && value > -OVERRANGE_MAGNITUDE)) {
+            value = NaN;
+            if (col < columnCount && kinds[col] !== COLUMN_IGNORED) this.reportOverrange(line, col, buf, numberStart, p);
+          }
+        } else if (atEnd && p === numberStart) {
+          value = NaN;
+          isEmpty = true;
+        } else {
+          // Slow path: find the end of the cell (RFC 4180 quoting within the line) and classify it.
+          p = cellStart;
+          c = buf[p];
+          while (c === 32 || c === 9) {
+            if (c === delim) break;
+            c = buf[++p];
+          }
+          if (c === QUOTE) {
+            c = buf[++p];
+            for (;;) {
+              if (c === LF || c === CR) break;
+              if (c === QUOTE) {
+                c = buf[++p];
+                if (c === QUOTE) {
+                  c = buf[++p];
+                  continue;
+                }
+                break;
+              }
+              c = buf[++p];
+            }
+          }
+          while (c !== delim && c !== LF && c !== CR) c = buf[++p];
+          let cellEnd = p;
+          if (collapse) while (cellEnd > cellStart && buf[cellEnd - 1] === 32) cellEnd--;
+          value = NaN;
+          if (col < columnCount && kinds[col] !== COLUMN_IGNORED) {
+            const text = unquoteCell(decodeUtf8(buf, cellStart, cellEnd).text);
+            const parsed = parseNumberText(text, dec === 44 ? ',' : '.');
+            if (parsed.kind === 'number') {
+              value = parsed.value;
+              exp10 = parsed.lastDigitExponent;
+            } else if (parsed.kind === 'empty') {
+              isEmpty = true;
+            } else if (parsed.kind === 'overrange') {
+              this.reportOverrangeText(line, col, () => text);
+            } else {
+              this.reportNonNumeric(line, col, text);
+            }
+          } else if (col >= columnCount) {
+            // Beyond the known columns: only whether it holds anything matters.
+            isEmpty = true;
+            for (let k = cellStart; k < cellEnd; k++) {
+              const b = buf[k];
+              if (b !== 32 && b !== 9 && b !== QUOTE) {
+                isEmpty = false;
+                break;
+              }
+            }
+          }
+        }
+
+        if (col < columnCount) {
+          const kind = kinds[col];
+          if (kind === COLUMN_CHANNEL) columns[col][row] = value * scales[col];
+          else if (kind === COLUMN_TIME) {
+            timeValue = value;
+            timeExp = exp10;
+          }
+          if (isEmpty && kind !== COLUMN_IGNORED) {
+            if (firstEmptyCol < 0) firstEmptyCol = col;
+            emptyInRow++;
+          }
+        } else if (!isEmpty) extra = true;
+        if (!isEmpty) content = true;
+        col++;
+        if (c === delim) {
+          c = buf[++p];
+          if (collapse) {
+            while (c === 32) c = buf[++p];
+            if (c === LF || c === CR) break;
+          }
+          continue;
+        }
+        break;
+      }
+
+      // c is LF or CR.
+      p++;
+      if (c === CR) {
+        if (p < end) {
+          if (buf[p] === LF) p++;
+        } else this.pendingCR = true;
+      }
+      const thisLine = line;
+      line++;
+      if (!content) continue; // blank line, or only delimiters and blanks
+
+      if (emptyInRow > 0) this.reportEmpty(thisLine, firstEmptyCol, emptyInRow);
+      if (col < columnCount) {
+        for (let k = col; k < columnCount; k++) if (kinds[k] === COLUMN_CHANNEL) columns[k][row] = NaN;
+        this.reportRagged(thisLine, col, false);
+      } else if (extra) this.reportRagged(thisLine, col, true);
+      if (timebase !== undefined) {
+        timebase.add(timeValue * timeFactor, timeExp, timeFactor, row, thisLine);
+      }
+      row++;
+    }
+    this.rows = row;
+    this.line = line;
+  }
+
+  /** After the row limit: count the remaining non-blank lines only. */
+  private countRest(buf: Uint8Array, start: number, end: number): void {
+    let p = start;
+    let content = false;
+    while (p < end) {
+      const c = buf[p++];
+      if (c === LF || c === CR) {
+        if (c === CR) {
+          if (p < end) {
+            if (buf[p] === LF) p++;
+          } else this.pendingCR = true;
+        }
+        if (content) this.countedRows++;
+        content = false;
+      } else if (c !== 32 && c !== 9 && c !== this.plan.delimiter) content = true;
+    }
+  }
+
+  private columnName(col: number): string {
+    const label = this.plan.labels[col];
+    return label ? ` ("${label}")` : '';
+  }
+
+  private reportNonNumeric(line: number, col: number, text: string): void {
+    this.nonNumericCells++;
+    this.findings.add('non-numeric-cell', 'warning', { line, column: col + 1 }, 'cells that are not numbers', () => ({
+      message: `Line ${line}, column ${col + 1}${this.columnName(col)}: "${clip(text)}" is not a number; it is read as a missing sample.`,
+      advice: 'Missing samples are skipped by the analysis; check the export for text in numeric columns.',
+      figures: { line, column: col + 1 },
+    }));
+  }
+
+  private reportEmpty(line: number, col: number, count: number): void {
+    this.emptyCells += count;
+    this.findings.add('non-numeric-cell', 'warning', { line, column: col + 1 }, 'cells that are not numbers', () => ({
+      message: `Line ${line}, column ${col + 1}${this.columnName(col)} is empty${count > 1 ? ` (${count} empty cells in the row)` : ''}; read as a missing sample, not as 0.`,
+      figures: { line, column: col + 1, emptyCells: count },
+    }));
+  }
+
+  private reportOverrange(line: number, col: number, buf: Uint8Array, start: number, end: number): void {
+    this.reportOverrangeText(line, col, () => decodeUtf8(buf, start, end).text);
+  }
+
+  private reportOverrangeText(line: number, col: number, textOf: () => string): void {
+    this.overrangeCells++;
+    this.findings.add('overrange', 'warning', { line, column: col + 1 }, 'overrange samples', () => ({
+      message: `Line ${line}, column ${col + 1}${this.columnName(col)}: "${clip(textOf())}" marks a sample outside the scope's range; it is read as missing.`,
+      advice: 'The input exceeded the vertical range; lower the volts/div or use a larger probe attenuation.',
+      figures: { line, column: col + 1 },
+    }));
+  }
+
+  private reportRagged(line: number, cells: number, tooMany: boolean): void {
+    this.raggedRows++;
+    const expected = this.plan.columnCount;
+    this.findings.add('ragged-row', 'warning', { line }, 'rows with the wrong number of cells', () => ({
+      message: tooMany
+        ? `Line ${line} has ${cells} cells, more than the ${expected} columns of the header; the extra cells are ignored.`
+        : `Line ${line} has ${cells} cell${cells === 1 ? '' : 's'} where ${expected} are expected; the missing samples are read as missing.`,
+      figures: { line, cells, expected },
+    }));
+  }
+}
+
+function clip(text: string): string {
+  return text.length > 24 ? `${text.slice(0, 21)}...` : text;
+}
