@@ -14,7 +14,8 @@ import { createRandom } from './random.js';
  *   E(S2−S1) = TR·√2·Vref·sin(θ(t)+240°)  · sin(Φ(t) + ψ)
  *   resolver sin / cos: TR·√2·Vref·{sin θ, cos θ} · sin(Φ(t) + ψ)
  * ψ is the unit's phase lead. Reversed pairs (s3s1, s2s3, s1s2) are the negated voltages.
- * Each line may add a quadrature term q·cos(Φ+ψ), a 3rd carrier harmonic, a DC offset, a gain
+ * Each line may add a quadrature term q·cos(Φ+ψ), a 3rd carrier harmonic (proportional to the
+ * envelope for the unit, or constant per line), a DC offset, a gain
  * error, mains hum, white noise and the quantisation of an N-bit scope channel.
  */
 export interface SynthLineSpec {
@@ -27,7 +28,39 @@ export interface SynthLineSpec {
   readonly offsetV?: number;
   /** Quadrature (90° time phase) amplitude, peak volts. */
   readonly quadratureV?: number;
+  /**
+   * A constant 3rd carrier harmonic on this line, peak volts, h3·sin(3(Φ+ψ)); unlike the unit's
+   * `thirdHarmonic` it does not scale with the angle envelope, so it stays at the null. Default 0.
+   */
+  readonly thirdHarmonicV?: number;
+  /**
+   * Time skew of this channel in samples (may be fractional): the channel records the line as it
+   * was `skewSamples` samples earlier, as a delaying probe path or a multiplexed ADC would
+   * (positive = the line lags the others). Default 0.
+   */
+  readonly skewSamples?: number;
+  /** Scope input range: the recorded signal is clipped to ±clipV volts (flat tops). Default: none. */
+  readonly clipV?: number;
 }
+
+/**
+ * A stator wiring fault of a synchro, applied to the lead potentials before the line voltages are
+ * formed (derived from the Y-connected stator; the leads' potentials V1, V2, V3 are taken with zero
+ * sum):
+ * - `shorted`: the two leads are joined; with equal winding impedances both sit at the mean of
+ *   their open-circuit potentials, so their line reads 0 and the other two lines are equal and
+ *   opposite.
+ * - `open` with `feed: 'floating'` (default): the lead is open and floats at the mean of the other
+ *   two (a symmetric high-impedance load); the two lines through it each read −½ of the third.
+ * - `open` with `feed: 'receiver'`: measured at a torque receiver whose lead is open at the far end;
+ *   the receiver settles where its line that avoids the open lead matches the transmitter's, so
+ *   every line follows the receiver's angle, which folds back at the two peaks of that line (NEETS
+ *   Module 15 p.1-57: "turns smoothly one way then reverses"). Which half-turn is the stable one is
+ *   not modelled: the half starting at the first peak is used.
+ */
+export type SynthStatorFault =
+  | { readonly type: 'shorted'; readonly leads: 's1s2' | 's2s3' | 's1s3' }
+  | { readonly type: 'open'; readonly lead: 's1' | 's2' | 's3'; readonly feed?: 'floating' | 'receiver' };
 
 export interface SynthUnitSpec {
   readonly id?: string;
@@ -41,6 +74,8 @@ export interface SynthUnitSpec {
   readonly lines: readonly SynthLineSpec[];
   /** 3rd carrier harmonic on every line, as a fraction of the fundamental. */
   readonly thirdHarmonic?: number;
+  /** A stator wiring fault (synchro only); default none. */
+  readonly statorFault?: SynthStatorFault;
 }
 
 export interface SynthSpec {
@@ -105,7 +140,7 @@ export function synthesizeCapture(spec: SynthSpec): SynthCapture {
   const f0 = spec.carrier.frequencyHz;
   const carrierPhase = (tS: number): number => 2 * Math.PI * (f0 * tS + 0.5 * drift * tS * tS) + phi0;
 
-  const columns: { label: string; role: string; data: Float64Array }[] = [];
+  const columns: { label: string; role: string; data: Float64Array; clipV?: number | undefined }[] = [];
   if (spec.includeReference ?? true) {
     const data = new Float64Array(n);
     for (let i = 0; i < n; i++) data[i] = peakRef * Math.sin(carrierPhase(i / fs));
@@ -120,20 +155,38 @@ export function synthesizeCapture(spec: SynthSpec): SynthCapture {
     const h3 = unit.thirdHarmonic ?? 0;
     const theta = new Float64Array(n);
     for (let i = 0; i < n; i++) theta[i] = speed * motionAngleDeg(unit.motion, i / fs) * DEG;
+    const fault = unit.statorFault;
+    assertArgument(fault === undefined || unit.kind === 'synchro', 'statorFault applies to synchro units only');
     for (const line of unit.lines) {
       const shape = LINE_PHASE_DEG[line.role];
       assertArgument(shape !== undefined, `unknown line role ${line.role}`);
       const gain = (line.gain ?? 1) * shape.sign * amp;
       const q = line.quadratureV ?? 0;
       const offset = line.offsetV ?? 0;
+      const h3v = line.thirdHarmonicV ?? 0;
+      const skew = line.skewSamples ?? 0;
       const data = new Float64Array(n);
-      for (let i = 0; i < n; i++) {
-        const carrier = carrierPhase(i / fs) + lead;
-        const envelope = gain * Math.sin(theta[i]! + shape.phaseDeg * DEG);
-        data[i] =
-          envelope * (Math.sin(carrier) + h3 * Math.sin(3 * carrier)) + q * Math.cos(carrier) + offset;
+      if (skew === 0 && fault === undefined) {
+        for (let i = 0; i < n; i++) {
+          const carrier = carrierPhase(i / fs) + lead;
+          const envelope = gain * Math.sin(theta[i]! + shape.phaseDeg * DEG);
+          data[i] =
+            envelope * (Math.sin(carrier) + h3 * Math.sin(3 * carrier)) + q * Math.cos(carrier) + h3v * Math.sin(3 * carrier) + offset;
+        }
+      } else {
+        assertArgument(Number.isFinite(skew), 'skewSamples must be finite');
+        for (let i = 0; i < n; i++) {
+          const tS = (i - skew) / fs;
+          const carrier = carrierPhase(tS) + lead;
+          const th = skew === 0 ? theta[i]! : speed * motionAngleDeg(unit.motion, tS) * DEG;
+          const unitEnvelope =
+            fault === undefined ? Math.sin(th + shape.phaseDeg * DEG) : faultyLineEnvelope(fault, th, line.role);
+          const envelope = (line.gain ?? 1) * amp * (fault === undefined ? shape.sign : 1) * unitEnvelope;
+          data[i] =
+            envelope * (Math.sin(carrier) + h3 * Math.sin(3 * carrier)) + q * Math.cos(carrier) + h3v * Math.sin(3 * carrier) + offset;
+        }
       }
-      columns.push({ label: line.label ?? DEFAULT_LABEL[line.role]!, role: prefix + line.role, data });
+      columns.push({ label: line.label ?? DEFAULT_LABEL[line.role]!, role: prefix + line.role, data, clipV: line.clipV });
     }
   });
 
@@ -146,6 +199,11 @@ export function synthesizeCapture(spec: SynthSpec): SynthCapture {
       if (noise > 0) v += noise * random.normal();
       if (hum) v += hum.amplitudeV * Math.sin(2 * Math.PI * hum.frequencyHz * (i / fs) + humPhase);
       column.data[i] = v;
+    }
+    const clip = column.clipV;
+    if (clip !== undefined) {
+      assertArgument(clip > 0, 'clipV must be positive');
+      for (let i = 0; i < n; i++) column.data[i] = Math.max(-clip, Math.min(clip, column.data[i]!));
     }
   }
 
@@ -180,4 +238,45 @@ export function synthesizeCapture(spec: SynthSpec): SynthCapture {
       return (unit.speed ?? 1) * motionAngleDeg(unit.motion, tS);
     },
   };
+}
+
+const LEAD_INDEX: Readonly<Record<string, number>> = { s1: 0, s2: 1, s3: 2 };
+/** The pair of leads (potential of the first minus the second) behind each line role. */
+const LINE_LEADS: Readonly<Record<string, readonly [number, number]>> = {
+  s1s3: [0, 2], s3s2: [2, 1], s2s1: [1, 0], s3s1: [2, 0], s2s3: [1, 2], s1s2: [0, 1],
+};
+
+/**
+ * Envelope (per unit of the stator maximum) of one line of a synchro with a stator fault at
+ * electrical angle `thetaRad`. Lead potentials of the healthy unit, with zero sum:
+ * V1 = (A − C)/3, V2 = (C − B)/3, V3 = (B − A)/3 for A = sin θ, B = sin(θ+120°), C = sin(θ+240°)
+ * (then V1 − V3 = A, V3 − V2 = B, V2 − V1 = C; derived).
+ */
+function faultyLineEnvelope(fault: SynthStatorFault, thetaRad: number, role: string): number {
+  const leads = LINE_LEADS[role];
+  assertArgument(leads !== undefined, `statorFault needs line-to-line roles, got ${role}`);
+  let th = thetaRad;
+  if (fault.type === 'open' && fault.feed === 'receiver') {
+    // The line that avoids the open lead: lead S3 open → S2−S1 (phase 240°), S1 → S3−S2 (120°),
+    // S2 → S1−S3 (0°). Its peaks sit at θp = 90° − phase and θp + 180°; the receiver's angle
+    // stays in [θp, θp + 180°], mirrored about the peaks (sin(θ + phase) is unchanged).
+    const phaseRad = [120, 0, 240][LEAD_INDEX[fault.lead]!]! * DEG;
+    const peak = Math.PI / 2 - phaseRad;
+    const x = ((th - peak) % (2 * Math.PI) + 2 * Math.PI) % (2 * Math.PI);
+    th = x < Math.PI ? peak + x : peak - x;
+  }
+  const a = Math.sin(th);
+  const b = Math.sin(th + 120 * DEG);
+  const c = Math.sin(th + 240 * DEG);
+  const v = [(a - c) / 3, (c - b) / 3, (b - a) / 3];
+  if (fault.type === 'shorted') {
+    const [p, q] = fault.leads === 's1s2' ? [0, 1] : fault.leads === 's2s3' ? [1, 2] : [0, 2];
+    const mean = (v[p]! + v[q]!) / 2;
+    v[p] = mean;
+    v[q] = mean;
+  } else if ((fault.feed ?? 'floating') === 'floating') {
+    const k = LEAD_INDEX[fault.lead]!;
+    v[k] = (v[(k + 1) % 3]! + v[(k + 2) % 3]!) / 2;
+  }
+  return v[leads[0]]! - v[leads[1]]!;
 }
