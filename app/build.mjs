@@ -1,16 +1,12 @@
-// Bundles the command-line tool into one CommonJS file that runs under plain Node.
+// Bundles the command-line tool into CommonJS files that run under plain Node: the CLI itself and
+// the worker thread it starts for batch runs (loaded from the same folder).
 import { build } from 'esbuild';
 import { chmod } from 'node:fs/promises';
 
+const common = { bundle: true, platform: 'node', target: 'node20', format: 'cjs', sourcemap: false, logLevel: 'warning' };
 const outfile = 'dist/cli/statorscope.js';
-await build({
-  entryPoints: ['app/cli/statorscope.ts'],
-  outfile,
-  bundle: true,
-  platform: 'node',
-  target: 'node20',
-  format: 'cjs',
-  sourcemap: false,
-  logLevel: 'warning',
-});
+await Promise.all([
+  build({ ...common, entryPoints: ['app/cli/statorscope.ts'], outfile }),
+  build({ ...common, entryPoints: ['app/cli/analysisWorker.ts'], outfile: 'dist/cli/analysisWorker.js' }),
+]);
 await chmod(outfile, 0o755);

@@ -1,13 +1,17 @@
-import { sinCosFromLines, type UnitLines } from './angle/sinCosFromLines.js';
-import { solveAngle } from './angle/solveAngle.js';
+import { analyzeAccuracy } from './analyzeAccuracy.js';
+import { analyzeUnit, type UnitAnalysis, type UnitGroup } from './analyzeUnit.js';
 import { trackCarrier } from './carrier/trackCarrier.js';
-import { demodulateCycles, type CyclePhasors } from './demod/demodulateCycles.js';
+import { combineUnits } from './combineUnits.js';
+import { demodulateCycles } from './demod/demodulateCycles.js';
+import { checkCaptureQuality } from './diagnostics/captureQuality.js';
 import { clippedFraction } from './diagnostics/clippedFraction.js';
-import type { Analysis, LineResult, UnitResult } from './model/analysis.js';
+import { checkShaftFacts } from './diagnostics/shaftFacts.js';
+import type { Analysis } from './model/analysis.js';
 import type { Capture } from './model/capture.js';
 import { CaptureError } from './model/errors.js';
 import { finding, type Finding } from './model/findings.js';
 import { formatRole, type Role } from './model/roles.js';
+import { analyzeMotion } from './motion/analyzeMotion.js';
 import { assignRoles, type RoleOptions } from './roles/assignRoles.js';
 
 /** What the user can tell the analysis beyond the capture itself (all optional). */
@@ -49,11 +53,18 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
     );
   }
 
-  const sources = refIndex >= 0 ? [capture.channels[refIndex]!.samples] : statorIndices.map((i) => capture.channels[i]!.samples);
-  const sourceRoles = refIndex >= 0 ? ['ref'] : statorIndices.map((i) => formatRole(roles[i]!));
-  const carrier = trackCarrier(sources, refIndex >= 0 ? 'reference' : 'stators', capture.sampleRateHz, capture.sampleCount, sourceRoles);
+  const hasRef = refIndex >= 0;
+  const carrierChannels = hasRef ? [refIndex] : statorIndices.filter((i) => roles[i]!.base !== 'ct');
+  const sourceRoles = carrierChannels.map((i) => formatRole(roles[i]!));
+  const carrier = trackCarrier(
+    carrierChannels.map((i) => capture.channels[i]!.samples),
+    hasRef ? 'reference' : 'stators',
+    capture.sampleRateHz,
+    capture.sampleCount,
+    sourceRoles,
+  );
   findings.push(...carrier.findings);
-  if (refIndex < 0) {
+  if (!hasRef) {
     findings.push(
       finding('no-reference', 'warning', 'The capture has no excitation (R1-R2) channel; the carrier was recovered from the stator lines.', {
         advice:
@@ -66,12 +77,61 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
   const used = roles.map((r, i) => (r && r.base !== 'ignore' ? i : -1)).filter((i) => i >= 0);
   const phasors = demodulateCycles(used.map((i) => capture.channels[i]!.samples), carrier.track, capture.sampleCount);
   const slot = (channel: number): number => used.indexOf(channel);
-  const samplesPerCycle = (capture.sampleRateHz / carrier.frequencyHz);
-  checkRecord(phasors, samplesPerCycle, findings);
+  const samplesPerCycle = capture.sampleRateHz / carrier.frequencyHz;
+  const refPeakV = hasRef ? carrier.referenceRmsV * Math.SQRT2 : NaN;
+  const clipped = capture.channels.map((c) => clippedFraction(c.samples, capture.sampleCount, samplesPerCycle));
 
-  const refPeakV = refIndex >= 0 ? carrier.referenceRmsV * Math.SQRT2 : NaN;
-  const units = groupUnits(roles).map((group) => solveUnit(group, phasors, slot, capture, refPeakV, carrier.source, findings));
-  const primary = units.find((u) => u.angle !== null)?.angle ?? null;
+  // Stator units first (a CT's error is read against its transmitter's phase lead).
+  const ctx = { capture, phasors, slot, carrier, refPeakV, options };
+  const groups = groupUnits(roles);
+  const analysed = new Map<UnitGroup, UnitAnalysis>();
+  for (const group of groups.filter((g) => !isCt(g))) analysed.set(group, analyzeUnit(ctx, group, null));
+  const transmitterLead = [...analysed.values()].find((u) => u.result.phaseLeadDeg !== null)?.result.phaseLeadDeg ?? null;
+  for (const group of groups.filter(isCt)) analysed.set(group, analyzeUnit(ctx, group, transmitterLead));
+  const unitAnalyses = groups.map((g) => analysed.get(g)!);
+  const units = unitAnalyses.map((u) => u.result);
+  for (const u of unitAnalyses) findings.push(...u.findings);
+
+  // The primary trace: a two-speed set's combined angle, else the first unit with an angle.
+  const combined = combineUnits(units, options);
+  findings.push(...combined.findings);
+  const firstWithAngle = unitAnalyses.find((u) => u.result.angle !== null);
+  const primary = combined.angle ?? firstWithAngle?.result.angle ?? null;
+  const motion = combined.angle ? analyzeMotion(combined.angle.t, combined.angle.unwrappedDeg, { roles: firstWithAngle?.result.roles ?? [] }) : firstWithAngle?.motion ?? null;
+  if (combined.angle && motion) findings.push(...motion.findings);
+
+  let accuracy: Analysis['accuracy'] = null;
+  if (primary && motion) {
+    const result = analyzeAccuracy(primary, motion, options.accuracy ?? {}, firstWithAngle?.result.roles ?? []);
+    accuracy = result.accuracy;
+    findings.push(...result.findings);
+  }
+  if (primary && options.shaftFacts && firstWithAngle?.result.kind === 'synchro') {
+    const facts = checkShaftFacts(primary, options.shaftFacts.atElectricalZero !== undefined || options.shaftFacts.turned !== undefined
+      ? { ...(options.shaftFacts.atElectricalZero ? { atZero: true } : {}), ...(options.shaftFacts.turned ? { turned: options.shaftFacts.turned } : {}) }
+      : {}, { roles: firstWithAngle.result.roles });
+    findings.push(...facts.findings);
+  }
+
+  const quality = checkCaptureQuality({
+    sampleCount: capture.sampleCount,
+    samplesPerCycle,
+    carrierHz: carrier.frequencyHz,
+    track: carrier.track,
+    phasors,
+    channels: used.map((ch, k) => ({
+      role: formatRole(roles[ch]!),
+      samples: capture.channels[ch]!.samples,
+      phasorChannel: k,
+      scalePeakV: ch === refIndex ? refPeakV : unitScalePeakV(units, formatRole(roles[ch]!)),
+      isReference: ch === refIndex,
+    })),
+    units: unitAnalyses
+      .filter((u) => u.lines !== null)
+      .map((u) => ({ lines: u.lines!, roleNames: u.lines!.lines.map((l) => formatRole(roles[used[l.channel]!]!)) })),
+    clippedFractions: used.map((ch) => clipped[ch]!),
+  });
+  findings.push(...quality.findings);
 
   return {
     input: {
@@ -83,7 +143,7 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
         label: c.label,
         role: roles[i] ? formatRole(roles[i]!) : null,
         unit: c.unit,
-        clippedFraction: clippedFraction(c.samples, capture.sampleCount, samplesPerCycle),
+        clippedFraction: clipped[i]!,
       })),
     },
     carrier: {
@@ -98,124 +158,31 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
     },
     angle: primary,
     units,
+    motion,
+    accuracy,
+    twoSpeed: combined.twoSpeed,
+    tracking: combined.tracking,
     findings,
   };
 }
 
-interface UnitGroup {
-  readonly id: string;
-  readonly members: { readonly channel: number; readonly role: Role }[];
-}
+const isCt = (g: UnitGroup): boolean => g.members.some((m) => m.role.base === 'ct');
 
+/** One group per unit prefix; a CT output is a unit of its own. */
 function groupUnits(roles: readonly (Role | undefined)[]): UnitGroup[] {
-  const groups = new Map<string, UnitGroup>();
+  const groups = new Map<string, { id: string; members: { channel: number; role: Role }[] }>();
   roles.forEach((role, channel) => {
     if (!role || !STATOR_BASES.has(role.base)) return;
-    const id = role.unit || 'unit';
+    const id = role.base === 'ct' ? (role.unit ? `${role.unit}.ct` : 'ct') : role.unit || 'unit';
     if (!groups.has(id)) groups.set(id, { id, members: [] });
-    (groups.get(id)!.members as { channel: number; role: Role }[]).push({ channel, role });
+    groups.get(id)!.members.push({ channel, role });
   });
   return [...groups.values()];
 }
 
-function solveUnit(
-  group: UnitGroup,
-  phasors: CyclePhasors,
-  slot: (channel: number) => number,
-  capture: Capture,
-  refPeakV: number,
-  source: 'reference' | 'stators',
-  findings: Finding[],
-): UnitResult {
-  const bases = group.members.map((m) => m.role.base);
-  const kind: UnitResult['kind'] = bases.includes('ct') ? 'ct' : bases.includes('sin') || bases.includes('cos') ? 'resolver' : 'synchro';
-  const roleNames = group.members.map((m) => formatRole(m.role));
-  const base = { id: group.id, kind, roles: roleNames, nulls: [] };
-  const unitLines: UnitLines = {
-    kind: kind === 'resolver' ? 'resolver' : 'synchro',
-    lines: group.members.map((m) => ({ base: m.role.base, channel: slot(m.channel) })),
-  };
-  const sinCos = kind === 'ct' ? undefined : sinCosFromLines(unitLines, phasors);
-  if (!sinCos) {
-    if (kind !== 'ct') {
-      findings.push(
-        finding('angle-unsolvable', 'error', `Unit "${group.id}" has too few stator signals to solve an angle (${roleNames.join(', ')}).`, {
-          advice: 'A synchro needs two or three line-to-line voltages, a resolver both its sine and cosine windings.',
-          roles: roleNames,
-        }),
-      );
-    }
-    const psi = 0;
-    return {
-      ...base,
-      transformationRatio: null,
-      phaseLeadDeg: null,
-      method: null,
-      lines: group.members.map((m) => lineResult(m, phasors, slot, psi)),
-      angle: null,
-    };
-  }
-  const solution = solveAngle(sinCos, phasors, capture.sampleRateHz);
-  const psiRad = (solution.phaseLeadDeg * Math.PI) / 180;
-  const radius = Array.from(solution.radiusV).filter(Number.isFinite).sort((a, b) => a - b);
-  const medianRadius = radius.length ? radius[radius.length >> 1]! : NaN;
-  const hasRef = source === 'reference';
-  return {
-    ...base,
-    transformationRatio: hasRef && refPeakV > 0 ? medianRadius / refPeakV : null,
-    phaseLeadDeg: hasRef ? solution.phaseLeadDeg : null,
-    method: sinCos.method,
-    lines: group.members.map((m) => lineResult(m, phasors, slot, psiRad)),
-    angle: { t: solution.tS, deg: solution.deg, unwrappedDeg: solution.unwrappedDeg, ambiguous180: !hasRef },
-  };
-}
-
-function lineResult(
-  member: { channel: number; role: Role },
-  phasors: CyclePhasors,
-  slot: (channel: number) => number,
-  psiRad: number,
-): LineResult {
-  const k = slot(member.channel);
-  const re = phasors.inPhase[k]!;
-  const im = phasors.quadrature[k]!;
-  const c = Math.cos(psiRad);
-  const s = Math.sin(psiRad);
-  let maxPeak = 0;
-  const quad: number[] = [];
-  for (let m = 0; m < phasors.cycleCount; m++) {
-    const q = im[m]! * c - re[m]! * s;
-    const mag = Math.hypot(re[m]!, im[m]!);
-    if (Number.isFinite(mag)) {
-      maxPeak = Math.max(maxPeak, mag);
-      quad.push(q);
-    }
-  }
-  quad.sort((a, b) => a - b);
-  return {
-    role: formatRole(member.role),
-    maxRmsV: maxPeak / Math.SQRT2,
-    quadratureMv: quad.length ? (quad[quad.length >> 1]! / Math.SQRT2) * 1000 : NaN,
-    harmonicMv: null,
-    thdPct: null,
-  };
-}
-
-function checkRecord(phasors: CyclePhasors, samplesPerCycle: number, findings: Finding[]): void {
-  if (samplesPerCycle < 8) {
-    findings.push(
-      finding('low-sample-rate', samplesPerCycle < 4 ? 'error' : 'warning', `Only ${samplesPerCycle.toFixed(1)} samples per carrier cycle.`, {
-        advice: 'Per-cycle amplitudes and harmonics need at least 8 (better 20 or more) samples per cycle; raise the scope sample rate.',
-        figures: { samplesPerCycle },
-      }),
-    );
-  }
-  if (phasors.cycleCount < 10) {
-    findings.push(
-      finding('short-record', 'warning', `The record holds only ${phasors.cycleCount} whole carrier cycles.`, {
-        advice: 'Capture at least 10 cycles (better 100 or more) so the carrier and the unit figures are well determined.',
-        figures: { cycles: phasors.cycleCount },
-      }),
-    );
-  }
+/** The stator maximum (peak volts) of the unit a role belongs to. */
+function unitScalePeakV(units: Analysis['units'], role: string): number {
+  const unit = units.find((u) => u.roles.includes(role));
+  const max = unit ? Math.max(...unit.lines.map((l) => l.maxRmsV)) : NaN;
+  return max * Math.SQRT2;
 }

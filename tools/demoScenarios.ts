@@ -52,7 +52,7 @@ export const DEMO_SCENARIOS: readonly DemoScenario[] = [
   {
     name: 'bench-resolver-dividing-head',
     shows:
-      'A bench resolver held at one stop of a dividing head (37.5°), excitation plus sine and cosine windings, exported by a scope set to a European locale: key/value preamble, semicolons, decimal commas.',
+      'A bench resolver (26 V, 400 Hz, 11.8 V windings) held at one stop of a dividing head (37.5°), excitation plus sine and cosine windings, exported by a scope set to a European locale: key/value preamble, semicolons, decimal commas.',
     layout: 'semicolon-decimal-comma',
     layoutChanges: { preamble: 'key-value' },
     spec: {
@@ -64,7 +64,7 @@ export const DEMO_SCENARIOS: readonly DemoScenario[] = [
       units: [
         {
           kind: 'resolver',
-          transformationRatio: 0.5,
+          transformationRatio: 0.4538,
           phaseLeadDeg: 4,
           motion: { type: 'static', deg: 37.5 },
           lines: [{ role: 'sin' }, { role: 'cos' }],

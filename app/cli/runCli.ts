@@ -1,29 +1,21 @@
-import { resolve } from 'node:path';
-import { basename } from 'node:path';
-import {
-  analysisToJson,
-  analyzeCapture,
-  anglesToCsv,
-  CaptureError,
-  formatSummary,
-  renderHtmlReport,
-  type Analysis,
-  type Finding,
-} from '../../core/index.js';
+import { stat } from 'node:fs/promises';
+import { basename, join, resolve } from 'node:path';
+import { anglesToCsv, CaptureError, formatSummary, renderHtmlReport } from '../../core/index.js';
+import { analysisJsonText, analyzeFile, analyzeOptionsOf, FileCaptureError } from './analyzeFile.js';
+import { describeIoError } from './describeIoError.js';
 import { parseCliArgs, USAGE, UsageError, type AnalyzeCommand } from './parseCliArgs.js';
-import { readCaptureFile } from './readCaptureFile.js';
+import { runBatch, SUMMARY_FILE } from './runBatch.js';
 import { writeFileAtomic } from './writeFileAtomic.js';
-
-/** A CaptureError already phrased with its file and location. */
-class FileCaptureError extends Error {}
 
 export interface CliIo {
   readonly stdout: (text: string) => void;
   readonly stderr: (text: string) => void;
   readonly version: string;
+  /** Whether stderr is a terminal (batch progress is shown only then). */
+  readonly stderrIsTty?: boolean;
 }
 
-/** Runs one CLI invocation; returns the exit code (0 ok, 1 input unusable or unreadable, 2 usage). */
+/** Runs one CLI invocation; returns the exit code (0 ok, 1 input unusable or unreadable, 2 usage, 3 internal). */
 export async function runCli(argv: readonly string[], io: CliIo): Promise<number> {
   try {
     const command = parseCliArgs(argv);
@@ -35,7 +27,8 @@ export async function runCli(argv: readonly string[], io: CliIo): Promise<number
       io.stdout(`statorscope ${io.version}\n`);
       return 0;
     }
-    await analyze(command, io);
+    if (command.out !== undefined) return await batch(command, command.out, io);
+    await analyzeOne(command, io);
     return 0;
   } catch (error) {
     if (error instanceof UsageError) {
@@ -56,53 +49,44 @@ export async function runCli(argv: readonly string[], io: CliIo): Promise<number
   }
 }
 
-async function analyze(command: AnalyzeCommand, io: CliIo): Promise<void> {
+async function analyzeOne(command: AnalyzeCommand, io: CliIo): Promise<void> {
   const file = command.files[0]!;
   const input = resolve(file);
+  if ((await stat(input).catch(() => undefined))?.isDirectory()) {
+    throw new UsageError(`${file} is a folder: add --out <folder> to analyse every capture in it`);
+  }
   for (const out of [command.json, command.angles, command.report]) {
     if (out !== undefined && out !== '-' && resolve(out) === input) {
       throw new UsageError(`refusing to write over the capture file ${file}; choose another output name`);
     }
   }
-  let imported;
-  let analysis: Analysis;
-  try {
-    imported = await readCaptureFile(input);
-    analysis = analyzeCapture(imported.capture, {
-      ...(command.roles ? { overrides: command.roles } : {}),
-      ...(command.kind ? { kind: command.kind } : {}),
-    });
-  } catch (error) {
-    if (error instanceof CaptureError) throw new FileCaptureError(error.describeIn(file));
-    throw error;
-  }
-  const withImport: Analysis = { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
+  const analysis = await analyzeFile(input, file, analyzeOptionsOf(command));
   const meta = { file: basename(file), version: io.version };
-
-  if (command.angles !== undefined) await writeFileAtomic(command.angles, anglesToCsv(withImport));
-  if (command.report !== undefined) await writeFileAtomic(command.report, renderHtmlReport(withImport, meta));
+  if (command.angles !== undefined) await writeFileAtomic(command.angles, anglesToCsv(analysis));
+  if (command.report !== undefined) await writeFileAtomic(command.report, renderHtmlReport(analysis, meta));
   if (command.json !== undefined) {
-    const text = `${JSON.stringify(analysisToJson(withImport, meta), null, 1)}\n`;
+    const text = analysisJsonText(analysis, file, io.version);
     if (command.json === '-') io.stdout(text);
     else await writeFileAtomic(command.json, text);
   } else {
-    io.stdout(formatSummary(withImport, meta));
+    io.stdout(formatSummary(analysis, meta));
   }
 }
 
-function describeIoError(error: NodeJS.ErrnoException): string {
-  const where = error.path ?? 'file';
-  switch (error.code) {
-    case 'ENOENT':
-      return `cannot open ${where}: no such file`;
-    case 'EACCES':
-    case 'EPERM':
-      return `cannot access ${where}: permission denied`;
-    case 'EISDIR':
-      return `${where} is a folder, not a capture file`;
-    case 'ENOSPC':
-      return `cannot write ${where}: the disk is full`;
-    default:
-      return `${where}: ${error.message}`;
-  }
+async function batch(command: AnalyzeCommand, out: string, io: CliIo): Promise<number> {
+  const outcome = await runBatch(command.files, out, analyzeOptionsOf(command), command.jobs, {
+    stdout: io.stdout,
+    stderr: io.stderr,
+    stderrIsTty: io.stderrIsTty ?? false,
+    version: io.version,
+  });
+  const total = outcome.rows.length;
+  const ok = total - outcome.failed;
+  io.stdout(
+    `${ok} of ${total} capture${total === 1 ? '' : 's'} analysed on ${outcome.workers} worker${outcome.workers === 1 ? '' : 's'}` +
+      `${outcome.failed ? `, ${outcome.failed} failed` : ''}; summary in ${join(out, SUMMARY_FILE)}\n`,
+  );
+  for (const row of outcome.rows) if (row.status === 'failed') io.stderr(`statorscope: ${row.error}\n`);
+  if (outcome.internal) return 3;
+  return outcome.failed > 0 ? 1 : 0;
 }

@@ -6,6 +6,7 @@ void runCli(process.argv.slice(2), {
   stdout: (text) => process.stdout.write(text),
   stderr: (text) => process.stderr.write(text),
   version,
+  stderrIsTty: process.stderr.isTTY === true,
 }).then((code) => {
   process.exitCode = code;
 });

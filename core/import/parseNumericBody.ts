@@ -1,4 +1,4 @@
-import { composeDecimal } from './composeDecimal.js';
+import { composeDecimal, POW10 } from './composeDecimal.js';
 import { decodeUtf8 } from './decodeUtf8.js';
 import { OVERRANGE_MAGNITUDE, parseNumberText, unquoteCell } from './parseNumberText.js';
 import type { LineFindingCollector } from './collectLineFindings.js';
@@ -28,6 +28,8 @@ export interface BodyPlan {
   readonly expectedRows: number;
   /** Refuse more rows than this (Infinity for no limit). */
   readonly maxSamples: number;
+  /** Factor by which full columns grow (2 without a size estimate, less with one). */
+  readonly growthFactor?: number;
 }
 
 const LF = 10;
@@ -81,7 +83,7 @@ export class NumericBodyParser {
 
   private grow(): boolean {
     if (this.capacity >= this.plan.maxSamples) return false;
-    const next = Math.min(this.capacity * 2, this.plan.maxSamples);
+    const next = Math.min(Math.ceil(this.capacity * (this.plan.growthFactor ?? 2)) + 16, this.plan.maxSamples);
     for (let k = 0; k < this.columns.length; k++) {
       const old = this.columns[k];
       if (old.length === 0) continue;
@@ -120,6 +122,7 @@ export class NumericBodyParser {
     let row = this.rows;
     let line = this.line;
     let c = 0;
+    const fastRows = !collapse && columnCount > 0;
 
     while (p < end) {
       if (row === this.capacity && !this.grow()) {
@@ -128,6 +131,15 @@ export class NumericBodyParser {
         this.limitLine = line;
         this.countRest(buf, p, end);
         return;
+      }
+      if (fastRows) {
+        this.rows = row;
+        this.line = line;
+        p = this.parseCleanRows(buf, p, end);
+        row = this.rows;
+        line = this.line;
+        if (p >= end) break;
+        if (row === this.capacity) continue;
       }
       let col = 0;
       let content = false;
@@ -303,6 +315,129 @@ export class NumericBodyParser {
     }
     this.rows = row;
     this.line = line;
+  }
+
+  /**
+   * Fast path for the common row: exactly columnCount plain numbers (sign, at most 9 integer
+   * digits, at most 18 fraction digits, optional e-exponent), no blanks, no quotes, values within
+   * range. Digits accumulate in int32 segments of at most 9 digits (exact), joined once per cell.
+   * Parses such rows from p on and returns where it stopped: at the first row it cannot read
+   * (left untouched for the general state machine in parseRegion, so both paths give the same
+   * samples and findings), at the end of the region or when the columns are full.
+   */
+  private parseCleanRows(buf: Uint8Array, start: number, end: number): number {
+    const plan = this.plan;
+    const delim = plan.delimiter;
+    const dec = plan.decimalMark;
+    const columnCount = plan.columnCount;
+    const kinds = plan.kinds;
+    const scales = plan.scales;
+    const columns = this.columns;
+    const timebase = this.timebase;
+    const timeFactor = plan.timeFactorS;
+    const capacity = this.capacity;
+    let row = this.rows;
+    let line = this.line;
+    let p = start;
+    while (p < end && row < capacity) {
+      let q = p;
+      let b = buf[q];
+      let tValue = NaN;
+      let tExp = 0;
+      let k = 0;
+      for (; k < columnCount; k++) {
+        let neg = false;
+        if (b === 45) {
+          neg = true;
+          b = buf[++q];
+        } else if (b === 43) b = buf[++q];
+        const intStart = q;
+        let ip = 0;
+        while (b >= 48 && b <= 57) {
+          ip = (ip * 10 + (b - 48)) | 0;
+          b = buf[++q];
+        }
+        const ni = q - intStart;
+        if (ni > 9) break;
+        let nf = 0;
+        let mantissa = ip;
+        if (b === dec) {
+          b = buf[++q];
+          const fracStart = q;
+          const firstEnd = q + 9;
+          let f1 = 0;
+          while (b >= 48 && b <= 57 && q < firstEnd) {
+            f1 = (f1 * 10 + (b - 48)) | 0;
+            b = buf[++q];
+          }
+          const n1 = q - fracStart;
+          let f2 = 0;
+          const secondStart = q;
+          while (b >= 48 && b <= 57) {
+            f2 = (f2 * 10 + (b - 48)) | 0;
+            b = buf[++q];
+          }
+          const n2 = q - secondStart;
+          if (n2 > 9 || ni + n1 + n2 > 19) break;
+          nf = n1 + n2;
+          mantissa = n2 === 0 ? ip * POW10[n1] + f1 : (ip * POW10[n1] + f1) * POW10[n2] + f2;
+        }
+        if (ni + nf === 0) break;
+        let e10 = -nf;
+        if ((b | 32) === 101) {
+          b = buf[++q];
+          let eNeg = false;
+          if (b === 45) {
+            eNeg = true;
+            b = buf[++q];
+          } else if (b === 43) b = buf[++q];
+          const expStart = q;
+          let e = 0;
+          while (b >= 48 && b <= 57) {
+            e = (e * 10 + (b - 48)) | 0;
+            b = buf[++q];
+          }
+          const ne = q - expStart;
+          if (ne === 0 || ne > 5) break;
+          e10 += eNeg ? -e : e;
+        }
+        let v = composeDecimal(mantissa, e10);
+        if (!(v < OVERRANGE_MAGNITUDE)) break;
+        if (neg) v = -v;
+        const kind = kinds[k];
+        if (kind === COLUMN_CHANNEL) columns[k][row] = v * scales[k];
+        else if (kind === COLUMN_TIME) {
+          tValue = v;
+          tExp = e10;
+        }
+        if (k + 1 < columnCount) {
+          if (b !== delim) break;
+          b = buf[++q];
+        }
+      }
+      if (k === columnCount) {
+        // One empty trailing cell (a delimiter at the end of every row) is what the general path
+        // ignores too.
+        if (b === delim) b = buf[++q];
+        if (b === LF || b === CR) {
+          q++;
+          if (b === CR) {
+            if (q < end) {
+              if (buf[q] === LF) q++;
+            } else this.pendingCR = true;
+          }
+          p = q;
+          if (timebase !== undefined) timebase.add(tValue * timeFactor, tExp, timeFactor, row, line);
+          line++;
+          row++;
+          continue;
+        }
+      }
+      break;
+    }
+    this.rows = row;
+    this.line = line;
+    return p;
   }
 
   /** After the row limit: count the remaining non-blank lines only. */

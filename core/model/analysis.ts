@@ -1,4 +1,10 @@
 import type { Finding } from './findings.js';
+import type { LineRepairAction } from '../diagnostics/repairLines.js';
+import type { SinCosPlane } from '../diagnostics/sinCosPlane.js';
+import type { MotionAnalysis } from '../motion/analyzeMotion.js';
+import type { AccuracyRun } from '../motion/accuracyRun.js';
+import type { ContinuousAccuracy } from '../motion/continuousAccuracy.js';
+import type { CtErrorSignal } from '../motion/ctError.js';
 
 /** Everything one analysis produced; the JSON report (schema statorscope.analysis/1) is built from it. */
 export interface Analysis {
@@ -25,10 +31,32 @@ export interface Analysis {
     readonly cycles: number;
     readonly samplesPerCycle: number;
   };
-  /** The primary angle trace (first unit with an angle), one point per carrier cycle. */
+  /** The primary angle trace (first unit with an angle, or a two-speed set's combined angle), one point per carrier cycle. */
   readonly angle: UnitAngle | null;
   readonly units: readonly UnitResult[];
+  /** Motion of the primary angle trace: segments, velocity, jitter, steps. */
+  readonly motion: MotionAnalysis | null;
+  /** Accuracy run over the primary trace (stepped stops or a constant-speed turn), when the capture holds one. */
+  readonly accuracy: AccuracyRun | ContinuousAccuracy | null;
+  /** A coarse/fine pair combined into one angle. */
+  readonly twoSpeed: TwoSpeedResult | null;
+  /** Two units that are not a two-speed pair: how well the second follows the first. */
+  readonly tracking: { readonly a: string; readonly b: string; readonly meanArcmin: number; readonly rmsArcmin: number; readonly maxAbsArcmin: number } | null;
   readonly findings: readonly Finding[];
+}
+
+export interface TwoSpeedResult {
+  readonly coarseId: string;
+  readonly fineId: string;
+  readonly speedRatio: number;
+  readonly speedRatioSource: 'given' | 'label' | 'detected';
+  readonly stickOffDeg: number;
+  /** 180°/N: the largest coarse error the combination tolerates, degrees. */
+  readonly limitDeg: number;
+  readonly ambiguousCycles: number;
+  readonly worstCoarseErrorDeg: number;
+  /** Coarse minus combined, degrees, per cycle. */
+  readonly coarseErrorDeg: Float64Array;
 }
 
 export interface UnitAngle {
@@ -66,10 +94,21 @@ export interface UnitResult {
   readonly nulls: readonly {
     readonly role: string;
     readonly angleDeg: number;
+    readonly tS: number;
     readonly inPhaseMv: number;
     readonly quadratureMv: number;
     readonly harmonicMv: number;
     readonly totalMv: number;
   }[];
   readonly angle: UnitAngle | null;
+  /** The standard family the transformation ratio matches, if any. */
+  readonly family: { readonly name: string; readonly nominalRatio: number; readonly deviationPct: number } | null;
+  /** Sine/cosine plane (Lissajous) figures, when the capture covers enough angle. */
+  readonly plane: SinCosPlane | null;
+  /** Lines dropped or rescaled before the angle was solved (dead line, wrong probe factor). */
+  readonly repairs: readonly LineRepairAction[];
+  /** False when wiring faults leave the decoded angle meaningless (shorted lines, open lead). */
+  readonly angleValid: boolean;
+  /** A control transformer's error output, per cycle. */
+  readonly ctError: CtErrorSignal | null;
 }

@@ -1,19 +1,34 @@
 /**
- * npm run bench [-- --max-rows N]: times each pipeline stage and the CLI end to end on seeded
- * captures of 10^4 to 10^7 rows x 4 channels, prints a table and writes bench-results/bench.json.
- * Not part of npm test: these are measurements, not checks.
+ * npm run bench [-- --max-rows N] [-- --no-anchor] [-- --no-batch]: bundled with esbuild (so the
+ * timings are the code users run, not a transpile-on-load loader), times each pipeline stage and
+ * the CLI end to end on seeded captures of 10^4 to 10^7 rows x 4 channels, runs the pandas +
+ * numpy yardstick (tests/bench/pandasAnchor.py under /usr/bin/python3) on the same files in the
+ * same run, and a 100-file batch on one worker and on all cores. Prints tables and writes
+ * bench-results/bench.json. Not part of npm test: these are measurements, not checks.
  */
 import { spawnSync } from 'node:child_process';
-import { createReadStream, mkdirSync, statSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { availableParallelism, cpus, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
+import { readCaptureFile } from '../../app/cli/readCaptureFile.js';
 import { sinCosFromLines } from '../../core/angle/sinCosFromLines.js';
 import { solveAngle } from '../../core/angle/solveAngle.js';
 import { trackCarrier } from '../../core/carrier/trackCarrier.js';
 import { demodulateCycles } from '../../core/demod/demodulateCycles.js';
-import { createCaptureParser } from '../../core/import/captureParser.js';
+import { clippedFraction } from '../../core/diagnostics/clippedFraction.js';
 import { analyzeCapture } from '../../core/pipeline.js';
-import { benchCapturePath } from './benchCapture.js';
+import { benchCapturePath, benchFolder } from './benchCapture.js';
+
+const PYTHON = '/usr/bin/python3';
+const ANCHOR = 'tests/bench/pandasAnchor.py';
+const CLI = 'dist/cli/statorscope.js';
+
+interface Run {
+  wallS: number;
+  peakRssMB: number;
+  stdout: string;
+}
 
 interface Row {
   rows: number;
@@ -24,96 +39,188 @@ interface Row {
   demodS: number;
   demodSamplesPerS: number;
   angleS: number;
+  diagnosticsS: number;
   analyzeS: number;
   cliWallS: number;
   cliPeakRssMB: number;
+  anchorWallS: number | null;
+  anchorPeakRssMB: number | null;
+  anchorImportS: number | null;
+  wallRatio: number | null;
+  memoryRatio: number | null;
 }
 
-async function importFile(path: string) {
-  const parser = createCaptureParser();
-  for await (const chunk of createReadStream(path, { highWaterMark: 1 << 20 })) parser.push(chunk as Buffer);
-  return parser.finish();
-}
-
-function cliRun(path: string): { wallS: number; peakRssMB: number } {
-  // GNU time reports the child's peak resident set (kB) on its own line.
+/** Runs a command under GNU time, which reports the child's peak resident set (kB). */
+function timed(command: string, args: string[]): Run {
   const started = performance.now();
-  const result = spawnSync('/usr/bin/time', ['-f', 'peak-rss-kb %M', process.execPath, 'dist/cli/statorscope.js', 'analyze', path, '--json', '/dev/null'], { encoding: 'utf8' });
+  const result = spawnSync('/usr/bin/time', ['-f', 'peak-rss-kb %M', command, ...args], { encoding: 'utf8', maxBuffer: 64 << 20 });
   const wallS = (performance.now() - started) / 1000;
-  if (result.status !== 0) throw new Error(`CLI failed: ${result.stderr}`);
+  if (result.status !== 0) throw new Error(`${command} ${args.join(' ')} failed (${result.status}): ${result.stderr}`);
   const kb = Number(/peak-rss-kb (\d+)/.exec(result.stderr)?.[1]);
-  return { wallS, peakRssMB: kb / 1024 };
+  return { wallS, peakRssMB: kb / 1024, stdout: result.stdout };
+}
+
+function anchorAvailable(): boolean {
+  return spawnSync(PYTHON, ['-c', 'import pandas, numpy'], { encoding: 'utf8' }).status === 0;
+}
+
+async function measure(rows: number, withAnchor: boolean): Promise<Row> {
+  const path = await benchCapturePath(rows);
+  const fileMB = statSync(path).size / 1e6;
+  const jsonOut = join(benchFolder(), `out-${rows}.json`);
+
+  let t = performance.now();
+  const { capture } = await readCaptureFile(path);
+  const importS = (performance.now() - t) / 1000;
+  if (capture.sampleCount !== rows) throw new Error(`imported ${capture.sampleCount} rows, expected ${rows}`);
+
+  t = performance.now();
+  const carrier = trackCarrier([capture.channels[0]!.samples], 'reference', capture.sampleRateHz, capture.sampleCount, ['ref']);
+  const carrierS = (performance.now() - t) / 1000;
+
+  t = performance.now();
+  const phasors = demodulateCycles(capture.channels.map((c) => c.samples), carrier.track, capture.sampleCount);
+  const demodS = (performance.now() - t) / 1000;
+
+  t = performance.now();
+  const sc = sinCosFromLines({ kind: 'synchro', lines: [{ base: 's1s3', channel: 1 }, { base: 's3s2', channel: 2 }, { base: 's2s1', channel: 3 }] }, phasors)!;
+  const angle = solveAngle(sc, phasors, capture.sampleRateHz);
+  const angleS = (performance.now() - t) / 1000;
+  if (!Number.isFinite(angle.deg[angle.deg.length >> 1]!)) throw new Error('angle is not finite'); // sanity check
+
+  // The per-sample diagnostics the pipeline runs today (clipping scan of every channel).
+  t = performance.now();
+  const spc = capture.sampleRateHz / carrier.frequencyHz;
+  let clipped = 0;
+  for (const c of capture.channels) clipped += clippedFraction(c.samples, capture.sampleCount, spc);
+  const diagnosticsS = (performance.now() - t) / 1000;
+  if (!(clipped >= 0)) throw new Error('clipped fraction is not a number');
+
+  t = performance.now();
+  analyzeCapture(capture);
+  const analyzeS = (performance.now() - t) / 1000;
+
+  const cli = timed(process.execPath, [CLI, 'analyze', path, '--json', jsonOut]);
+  rmSync(jsonOut, { force: true });
+  let anchor: Run | undefined;
+  let anchorImportS: number | null = null;
+  if (withAnchor) {
+    anchor = timed(PYTHON, [ANCHOR, path]);
+    anchorImportS = (JSON.parse(anchor.stdout) as { importS: number }).importS;
+  }
+  return {
+    rows,
+    fileMB,
+    importS,
+    importMBps: fileMB / importS,
+    carrierS,
+    demodS,
+    demodSamplesPerS: (rows * capture.channels.length) / demodS,
+    angleS,
+    diagnosticsS,
+    analyzeS,
+    cliWallS: cli.wallS,
+    cliPeakRssMB: cli.peakRssMB,
+    anchorWallS: anchor?.wallS ?? null,
+    anchorPeakRssMB: anchor?.peakRssMB ?? null,
+    anchorImportS,
+    wallRatio: anchor ? cli.wallS / anchor.wallS : null,
+    memoryRatio: anchor ? cli.peakRssMB / anchor.peakRssMB : null,
+  };
+}
+
+interface BatchRow {
+  files: number;
+  rowsEach: number;
+  jobs: number;
+  wallS: number;
+  peakRssMB: number;
+  capturesPerS: number;
+}
+
+/** 100 copies of the 10^5-row capture through `analyze <folder> --out`, on 1 worker and on all cores. */
+async function measureBatch(): Promise<BatchRow[]> {
+  const source = await benchCapturePath(100_000);
+  const folder = join(tmpdir(), 'statorscope-bench-batch');
+  const inputs = join(folder, 'in');
+  mkdirSync(inputs, { recursive: true });
+  for (let i = 0; i < 100; i++) {
+    const target = join(inputs, `capture-${String(i).padStart(3, '0')}.csv`);
+    if (!existsSync(target)) copyFileSync(source, target);
+  }
+  const out: BatchRow[] = [];
+  for (const jobs of [...new Set([1, availableParallelism()])]) {
+    const outDir = join(folder, `out-${jobs}`);
+    rmSync(outDir, { recursive: true, force: true });
+    const run = timed(process.execPath, [CLI, 'analyze', inputs, '--out', outDir, '--jobs', String(jobs)]);
+    out.push({ files: 100, rowsEach: 100_000, jobs, wallS: run.wallS, peakRssMB: run.peakRssMB, capturesPerS: 100 / run.wallS });
+  }
+  return out;
+}
+
+function arg(name: string): string | undefined {
+  const i = process.argv.indexOf(name);
+  return i > 0 ? process.argv[i + 1] : undefined;
 }
 
 async function main(): Promise<void> {
-  const maxIndex = process.argv.indexOf('--max-rows');
-  const maxRows = maxIndex > 0 ? Number(process.argv[maxIndex + 1]) : 10_000_000;
-  spawnSync(process.execPath, ['app/build.mjs'], { stdio: 'inherit' });
+  const maxRows = Number(arg('--max-rows') ?? 10_000_000);
+  const withAnchor = !process.argv.includes('--no-anchor') && anchorAvailable();
+  if (!process.argv.includes('--no-anchor') && !withAnchor) {
+    process.stderr.write(`bench: ${PYTHON} cannot import pandas and numpy (apt-get install -y python3-pandas python3-numpy); running without the yardstick\n`);
+  }
+  const build = spawnSync(process.execPath, ['app/build.mjs'], { stdio: 'inherit' });
+  if (build.status !== 0) throw new Error('build failed');
   const results: Row[] = [];
   for (const rows of [10_000, 100_000, 1_000_000, 10_000_000].filter((r) => r <= maxRows)) {
-    const path = await benchCapturePath(rows);
-    const fileMB = statSync(path).size / 1e6;
-    let t = performance.now();
-    const { capture } = await importFile(path);
-    const importS = (performance.now() - t) / 1000;
-    if (capture.sampleCount !== rows) throw new Error(`imported ${capture.sampleCount} rows, expected ${rows}`);
-
-    t = performance.now();
-    const carrier = trackCarrier([capture.channels[0]!.samples], 'reference', capture.sampleRateHz, capture.sampleCount, ['ref']);
-    const carrierS = (performance.now() - t) / 1000;
-
-    t = performance.now();
-    const phasors = demodulateCycles(capture.channels.map((c) => c.samples), carrier.track, capture.sampleCount);
-    const demodS = (performance.now() - t) / 1000;
-
-    t = performance.now();
-    const sc = sinCosFromLines({ kind: 'synchro', lines: [{ base: 's1s3', channel: 1 }, { base: 's3s2', channel: 2 }, { base: 's2s1', channel: 3 }] }, phasors)!;
-    const angle = solveAngle(sc, phasors, capture.sampleRateHz);
-    const angleS = (performance.now() - t) / 1000;
-    if (!Number.isFinite(angle.deg[angle.deg.length >> 1]!)) throw new Error('angle is not finite'); // sanity check
-
-    t = performance.now();
-    analyzeCapture(capture);
-    const analyzeS = (performance.now() - t) / 1000;
-
-    const cli = cliRun(path);
-    results.push({
-      rows,
-      fileMB,
-      importS,
-      importMBps: fileMB / importS,
-      carrierS,
-      demodS,
-      demodSamplesPerS: (rows * capture.channels.length) / demodS,
-      angleS,
-      analyzeS,
-      cliWallS: cli.wallS,
-      cliPeakRssMB: cli.peakRssMB,
-    });
+    results.push(await measure(rows, withAnchor));
     printTable(results);
   }
+  const batch = process.argv.includes('--no-batch') ? [] : await measureBatch();
+  if (batch.length) printBatch(batch);
   mkdirSync('bench-results', { recursive: true });
-  writeFileSync(join('bench-results', 'bench.json'), `${JSON.stringify({ node: process.version, results }, null, 1)}\n`);
+  const machine = { node: process.version, cpus: cpus().length, cpuModel: cpus()[0]?.model ?? '' };
+  writeFileSync(join('bench-results', 'bench.json'), `${JSON.stringify({ ...machine, date: new Date().toISOString(), results, batch }, null, 1)}\n`);
 }
 
 function printTable(results: Row[]): void {
-  const header = 'rows        file MB  import s  import MB/s  carrier s  demod s  demod Msamples/s  angle s  analyze s  CLI wall s  CLI peak RSS MB';
+  const f = (v: number | null, d: number, w: number): string => (v === null ? '-' : v.toFixed(d)).padStart(w);
+  const header =
+    'rows       file MB  import s  MB/s  carrier s  demod s  angle s  diag s  analyze s | CLI wall s  RSS MB | pandas wall s  RSS MB  (import s) | wall ratio  RSS ratio';
   const lines = results.map((r) =>
     [
-      String(r.rows).padEnd(10),
-      r.fileMB.toFixed(1).padStart(8),
-      r.importS.toFixed(3).padStart(9),
-      r.importMBps.toFixed(0).padStart(12),
-      r.carrierS.toFixed(3).padStart(10),
-      r.demodS.toFixed(3).padStart(8),
-      (r.demodSamplesPerS / 1e6).toFixed(0).padStart(17),
-      r.angleS.toFixed(3).padStart(8),
-      r.analyzeS.toFixed(3).padStart(10),
-      r.cliWallS.toFixed(3).padStart(11),
-      r.cliPeakRssMB.toFixed(0).padStart(16),
+      String(r.rows).padEnd(9),
+      f(r.fileMB, 1, 8),
+      f(r.importS, 3, 9),
+      f(r.importMBps, 0, 5),
+      f(r.carrierS, 3, 10),
+      f(r.demodS, 3, 8),
+      f(r.angleS, 3, 8),
+      f(r.diagnosticsS, 3, 7),
+      f(r.analyzeS, 3, 10),
+      '|',
+      f(r.cliWallS, 3, 10),
+      f(r.cliPeakRssMB, 0, 7),
+      '|',
+      f(r.anchorWallS, 3, 13),
+      f(r.anchorPeakRssMB, 0, 7),
+      `(${f(r.anchorImportS, 3, 7)})`.padStart(11),
+      '|',
+      f(r.wallRatio, 3, 10),
+      f(r.memoryRatio, 3, 10),
     ].join(' '),
   );
   process.stdout.write(`\n${header}\n${lines.join('\n')}\n`);
 }
 
-void main();
+function printBatch(rows: BatchRow[]): void {
+  process.stdout.write('\nbatch: files x rows     jobs  wall s  peak RSS MB  captures/s\n');
+  for (const r of rows) {
+    process.stdout.write(`       ${r.files} x ${r.rowsEach}  ${String(r.jobs).padStart(5)}  ${r.wallS.toFixed(2).padStart(6)}  ${r.peakRssMB.toFixed(0).padStart(11)}  ${r.capturesPerS.toFixed(1).padStart(10)}\n`);
+  }
+}
+
+void main().catch((error: unknown) => {
+  process.stderr.write(`bench: ${(error as Error).message}\n`);
+  process.exitCode = 1;
+});

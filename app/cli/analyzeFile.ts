@@ -1,0 +1,40 @@
+import { basename } from 'node:path';
+import { analysisToJson, analyzeCapture, CaptureError, type Analysis, type AnalyzeOptions, type Finding } from '../../core/index.js';
+import { captureMemoryLimitBytes, checkCaptureFits, estimateCaptureSize } from './captureMemory.js';
+import type { AnalyzeCommand } from './parseCliArgs.js';
+import { readCaptureFile } from './readCaptureFile.js';
+
+/** A capture that cannot be analysed, already phrased with its file and location: exit code 1. */
+export class FileCaptureError extends Error {}
+
+/** What analyzeCapture receives from the command line. */
+export function analyzeOptionsOf(command: Pick<AnalyzeCommand, 'roles' | 'kind' | 'analysis'>): AnalyzeOptions {
+  return {
+    ...(command.roles ? { overrides: command.roles } : {}),
+    ...(command.kind ? { kind: command.kind } : {}),
+    ...command.analysis,
+  };
+}
+
+/**
+ * Imports and analyses one capture file, refusing it before reading when its estimated size
+ * exceeds the memory share `workers` leave it; the import findings come first.
+ */
+export async function analyzeFile(path: string, displayName: string, options: AnalyzeOptions, workers = 1): Promise<Analysis> {
+  const estimate = await estimateCaptureSize(path);
+  const fits = checkCaptureFits(displayName, estimate, captureMemoryLimitBytes(workers));
+  if (!fits.ok) throw new FileCaptureError(fits.message);
+  try {
+    const imported = await readCaptureFile(path, { maxSamples: fits.maxSamples, sizeHintBytes: estimate.fileBytes });
+    const analysis = analyzeCapture(imported.capture, options);
+    return { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
+  } catch (error) {
+    if (error instanceof CaptureError) throw new FileCaptureError(error.describeIn(displayName));
+    throw error;
+  }
+}
+
+/** The JSON document written for one capture (schema statorscope.analysis/1). */
+export function analysisJsonText(analysis: Analysis, file: string, version: string): string {
+  return `${JSON.stringify(analysisToJson(analysis, { file: basename(file), version }), null, 1)}\n`;
+}
