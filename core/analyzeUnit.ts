@@ -14,7 +14,7 @@ import { finding, type Finding } from './model/findings.js';
 import { formatRole, type Role } from './model/roles.js';
 import { analyzeMotion, type MotionAnalysis } from './motion/analyzeMotion.js';
 import { ctErrorSignal, defaultCtMaxOutputV, estimateCtPhaseRad } from './motion/ctError.js';
-import type { AnalyzeOptions } from './pipeline.js';
+import type { AnalyzeOptions } from './model/analyzeOptions.js';
 
 /** What every unit of one capture shares. */
 export interface UnitContext {

@@ -12,25 +12,10 @@ import { CaptureError } from './model/errors.js';
 import { finding, type Finding } from './model/findings.js';
 import { formatRole, type Role } from './model/roles.js';
 import { analyzeMotion } from './motion/analyzeMotion.js';
-import { assignRoles, type RoleOptions } from './roles/assignRoles.js';
+import { assignRoles } from './roles/assignRoles.js';
+import type { AnalyzeOptions } from './model/analyzeOptions.js';
 
-/** What the user can tell the analysis beyond the capture itself (all optional). */
-export interface AnalyzeOptions extends RoleOptions {
-  /** Two-speed sets: fine turns per coarse turn (detected when omitted). */
-  readonly speedRatio?: number;
-  /** Two-speed sets: deliberate stick-off rotation of the coarse unit, degrees. */
-  readonly stickOffDeg?: number;
-  /** What the shaft did during the capture, to expose swapped leads or a reversed rotor. */
-  readonly shaftFacts?: { readonly atElectricalZero?: boolean; readonly turned?: 'ccw' | 'cw' };
-  /** Stepped accuracy runs: accuracy class ±N′, the step between stops, or the list of stops. */
-  readonly accuracy?: { readonly classArcmin?: number; readonly stepDeg?: number; readonly nominalDeg?: readonly number[] };
-  /** Null-voltage limit, mV RMS ("report, don't judge" when omitted). */
-  readonly nullLimitMv?: number;
-  /** Tolerance for matching a standard transformation ratio, percent. */
-  readonly ratioTolerancePct?: number;
-  /** Control-transformer error gradient, V per degree. */
-  readonly ctGradientVPerDeg?: number;
-}
+export type { AnalyzeOptions };
 
 const STATOR_BASES = new Set(['s1s3', 's3s2', 's2s1', 's3s1', 's2s3', 's1s2', 'sin', 'cos', 'ct']);
 

@@ -1,4 +1,13 @@
-import type { UnitLinePhasors } from './unitFigures.js';
+
+/** One line's per-cycle phasors, as the unit-figure regression takes them. */
+export interface UnitLinePhasors {
+  /** Role of the line, optionally with a unit prefix: "s1s3", "s3s1", "sin", "coarse.cos"... */
+  readonly role: string;
+  /** In-phase amplitude per cycle against sin Φ of the excitation, peak volts (CyclePhasors.inPhase[k]). */
+  readonly inPhaseV: ArrayLike<number>;
+  /** Quadrature amplitude per cycle against cos Φ, peak volts (CyclePhasors.quadrature[k]). */
+  readonly quadratureV: ArrayLike<number>;
+}
 
 /**
  * Removes the quadrature that a moving envelope leaves in a one-carrier-period lock-in window.

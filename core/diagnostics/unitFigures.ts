@@ -1,7 +1,7 @@
 import { solveSymmetric } from '../dsp/linearSolve.js';
 import { finding, type Finding } from '../model/findings.js';
 import { lineBasis, redecodeAngle, type LineSlope } from './linePatterns.js';
-import { removeMotionQuadrature } from './removeMotionQuadrature.js';
+import { removeMotionQuadrature, type UnitLinePhasors } from './removeMotionQuadrature.js';
 import { DEFAULT_RATIO_TOLERANCE_PCT, matchStandardFamily, STANDARD_FAMILIES, type StandardFamily } from './standardFamilies.js';
 
 /**
@@ -34,14 +34,7 @@ import { DEFAULT_RATIO_TOLERANCE_PCT, matchStandardFamily, STANDARD_FAMILIES, ty
  * channel at a static angle (phase-sensitive null measurement practice of SAE AS20708B; the
  * regression is ordinary least squares, e.g. Kay 1993 ch.4 linear model).
  */
-export interface UnitLinePhasors {
-  /** Role of the line, optionally with a unit prefix: "s1s3", "s3s1", "sin", "coarse.cos"... */
-  readonly role: string;
-  /** In-phase amplitude per cycle against sin Φ of the excitation, peak volts (CyclePhasors.inPhase[k]). */
-  readonly inPhaseV: ArrayLike<number>;
-  /** Quadrature amplitude per cycle against cos Φ, peak volts (CyclePhasors.quadrature[k]). */
-  readonly quadratureV: ArrayLike<number>;
-}
+export type { UnitLinePhasors };
 
 export interface UnitFiguresInput {
   readonly kind: 'synchro' | 'resolver';
