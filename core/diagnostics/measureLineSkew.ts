@@ -1,3 +1,4 @@
+import { removeMotionQuadrature } from './removeMotionQuadrature.js';
 import type { UnitLines } from '../angle/sinCosFromLines.js';
 import type { CyclePhasors } from '../demod/demodulateCycles.js';
 import { finding, type Finding } from '../model/findings.js';
@@ -44,8 +45,15 @@ export function measureLineSkew(
   }
   const psi = 0.5 * Math.atan2(si, sr);
   const cp = Math.cos(psi), sp = Math.sin(psi);
-  const uv = unit.lines.map((line) => {
-    const re = phasors.inPhase[line.channel]!, im = phasors.quadrature[line.channel]!;
+  // A turning shaft leaves a false quadrature in each one-period window (removeMotionQuadrature);
+  // take it out first, or it reads as a skew on a partial turn.
+  const cleaned = removeMotionQuadrature(
+    unit.lines.map((line) => ({ role: line.base, inPhaseV: phasors.inPhase[line.channel]!, quadratureV: phasors.quadrature[line.channel]! })),
+    psi,
+    phasors.centrePhaseRad,
+  );
+  const uv = cleaned.map((line) => {
+    const re = line.inPhaseV, im = line.quadratureV;
     const u: number[] = [], v: number[] = [];
     for (let m = 0; m < phasors.cycleCount; m++) {
       if (!Number.isFinite(re[m]!) || !Number.isFinite(im[m]!)) continue;

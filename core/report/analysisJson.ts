@@ -1,4 +1,5 @@
 import type { Analysis, UnitAngle } from '../model/analysis.js';
+import type { MotionAnalysis } from '../motion/analyzeMotion.js';
 
 /** Identifies the JSON contract; bumped only on a breaking change. */
 export const ANALYSIS_SCHEMA = 'statorscope.analysis/1';
@@ -28,11 +29,49 @@ export function analysisToJson(analysis: Analysis, meta: ReportMeta): Record<str
     input: { file: meta.file, ...clean(analysis.input) as object },
     carrier: clean(analysis.carrier),
     angle: angle(analysis.angle),
-    units: analysis.units.map((u) => ({ ...(clean({ ...u, angle: undefined }) as object), angle: angle(u.angle) })),
-    motion: null,
-    accuracy: null,
+    units: analysis.units.map((u) => ({
+      ...(clean({ ...u, angle: undefined, ctError: undefined }) as object),
+      angle: angle(u.angle),
+      ctError: u.ctError && {
+        gradientVPerDeg: finite(u.ctError.gradientVPerDeg),
+        gradientSource: u.ctError.gradientSource,
+        nullCrossings: clean(u.ctError.nullCrossings),
+        t: roundArray(u.ctError.tS, 1e9),
+        inPhaseV: roundArray(u.ctError.inPhaseV, 1e6),
+        quadratureMv: roundArray(u.ctError.quadratureMv, 1e3),
+        errorDeg: roundArray(u.ctError.errorDeg, 1e6),
+      },
+    })),
+    motion: motion(analysis.motion),
+    accuracy: clean(analysis.accuracy),
+    twoSpeed: analysis.twoSpeed && { ...(clean({ ...analysis.twoSpeed, coarseErrorDeg: undefined }) as object), coarseErrorDeg: roundArray(analysis.twoSpeed.coarseErrorDeg, 1e6) },
+    tracking: clean(analysis.tracking),
     findings: clean(analysis.findings),
   };
+}
+
+/** Motion figures without the per-cycle arrays (velocity goes to the angle CSV, not the JSON). */
+function motion(m: MotionAnalysis | null): Record<string, unknown> | null {
+  if (!m) return null;
+  const j = m.jitter;
+  return {
+    segments: clean(m.segments),
+    jitter: j && clean({
+      rmsArcmin: j.rmsArcmin,
+      ppArcmin: j.ppArcmin,
+      dominantHz: j.dominantHz,
+      tones: j.tones,
+      hunting: j.hunting,
+      source: j.source,
+      bandRmsArcmin: j.bandRmsArcmin,
+      noiseFloorArcmin2PerHz: j.noiseFloorArcmin2PerHz,
+    }),
+    steps: clean(m.steps),
+  };
+}
+
+function finite(v: number): number | null {
+  return Number.isFinite(v) ? v : null;
 }
 
 function roundArray(values: Float64Array, scale: number): (number | null)[] {
@@ -44,9 +83,10 @@ function roundArray(values: Float64Array, scale: number): (number | null)[] {
   return out;
 }
 
-/** Deep copy that maps non-finite numbers to null and drops undefined fields. */
+/** Deep copy that maps non-finite numbers to null, typed arrays to arrays, and drops undefined fields. */
 function clean(value: unknown): unknown {
   if (typeof value === 'number') return Number.isFinite(value) ? value : null;
+  if (ArrayBuffer.isView(value)) return Array.from(value as Float64Array, (v) => (Number.isFinite(v) ? v : null));
   if (Array.isArray(value)) return value.map(clean);
   if (value && typeof value === 'object') {
     const out: Record<string, unknown> = {};

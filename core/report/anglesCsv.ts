@@ -2,7 +2,8 @@ import type { Analysis } from '../model/analysis.js';
 
 /**
  * The angle trace as CSV text (RFC 4180; '.' decimal mark; LF line ends): one row per carrier
- * cycle of the primary unit, with each unit's wrapped and unwrapped angle in degrees.
+ * cycle, with each unit's wrapped and unwrapped angle in degrees, a two-speed set's combined
+ * angle and coarse error, the primary trace's velocity (deg/s), and a CT's error output.
  */
 export function anglesToCsv(analysis: Analysis): string {
   const units = analysis.units.filter((u) => u.angle !== null);
@@ -13,6 +14,12 @@ export function anglesToCsv(analysis: Analysis): string {
     const p = units.length > 1 ? `${u.id}_` : '';
     header.push(`${p}angle_deg`, `${p}unwrapped_deg`);
   }
+  const combined = analysis.twoSpeed ? analysis.angle : null;
+  if (combined) header.push('combined_angle_deg', 'combined_unwrapped_deg', 'coarse_error_deg');
+  const velocity = analysis.motion?.velocityDegPerS;
+  if (velocity) header.push('velocity_deg_per_s');
+  const ct = analysis.units.find((u) => u.ctError !== null)?.ctError;
+  if (ct) header.push('ct_error_v', 'ct_error_deg');
   const rows = [header.join(',')];
   for (let m = 0; m < primary.t.length; m++) {
     const row = [fmt(primary.t[m]!, 9)];
@@ -20,6 +27,9 @@ export function anglesToCsv(analysis: Analysis): string {
       const a = u.angle!;
       row.push(fmt(a.deg[m]!, 6), fmt(a.unwrappedDeg[m]!, 6));
     }
+    if (combined) row.push(fmt(combined.deg[m]!, 6), fmt(combined.unwrappedDeg[m]!, 6), fmt(analysis.twoSpeed!.coarseErrorDeg[m]!, 6));
+    if (velocity) row.push(fmt(velocity[m]!, 6));
+    if (ct) row.push(fmt(ct.inPhaseV[m]!, 6), fmt(ct.errorDeg[m]!, 6));
     rows.push(row.join(','));
   }
   return `${rows.join('\n')}\n`;
