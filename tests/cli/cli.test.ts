@@ -82,7 +82,9 @@ describe('statorscope analyze on every demo capture', () => {
     expect(stdout).toMatch(/transformation ratio 0\.45\d\d/);
     expect(stdout).toMatch(/findings\s+none/);
     const rows = readFileSync(angles, 'utf8').trim().split('\n');
-    expect(rows[0]).toBe('t_s,angle_deg,unwrapped_deg');
+    expect(rows[0]).toBe('t_s,angle_deg,unwrapped_deg,velocity_deg_per_s');
+    // the wind vane turns at about 20°/s (the demo's own truth)
+    expect(Number(rows[200]!.split(',')[3])).toBeGreaterThan(15);
     expect(rows.length).toBeGreaterThan(390);
     expect(readdirSync(dir)).toEqual(['angles.csv']); // no temporary file left behind
   });
