@@ -16,6 +16,8 @@ import { analyzeMotion, type MotionAnalysis } from './motion/analyzeMotion.js';
 import { ctErrorSignal, defaultCtMaxOutputV, estimateCtPhaseRad } from './motion/ctError.js';
 import type { AnalyzeOptions } from './model/analyzeOptions.js';
 
+const HARMONIC_SAMPLES = 1 << 18;
+
 /** What every unit of one capture shares. */
 export interface UnitContext {
   readonly capture: Capture;
@@ -113,13 +115,19 @@ export function analyzeUnit(ctx: UnitContext, group: UnitGroup, transmitterLeadD
   const solution = solveAngle(sinCos, repair.phasors, fs, leadRad);
   const motion = analyzeMotion(solution.tS, solution.unwrappedDeg, { roles: roleNames });
 
-  const still: SampleSegment[] = motion.segments
-    .filter((s) => s.kind === 'stationary' && s.endIndex - s.startIndex >= 3)
-    .map((s) => {
-      const last = s.endIndex - 1;
-      const startSample = phasors.firstSample[s.startIndex]!;
-      return { startSample, lengthSamples: phasors.firstSample[last]! + phasors.lengthSamples[last]! - startSample };
-    });
+  // Harmonics on the still parts, on at most HARMONIC_SAMPLES samples: the multi-harmonic fit is
+  // O(N·H²), and a few hundred thousand samples pin the harmonic levels far below a millivolt.
+  const still: SampleSegment[] = [];
+  let budget = HARMONIC_SAMPLES;
+  for (const seg of motion.segments) {
+    if (seg.kind !== 'stationary' || seg.endIndex - seg.startIndex < 3 || budget <= 0) continue;
+    const startSample = phasors.firstSample[seg.startIndex]!;
+    let last = seg.endIndex - 1;
+    while (last > seg.startIndex + 2 && phasors.firstSample[last]! + phasors.lengthSamples[last]! - startSample > budget) last--;
+    const lengthSamples = phasors.firstSample[last]! + phasors.lengthSamples[last]! - startSample;
+    still.push({ startSample, lengthSamples });
+    budget -= lengthSamples;
+  }
 
   const lines: LineResult[] = group.members.map((m) => {
     const k = slot(m.channel);

@@ -64,8 +64,9 @@ Channels:
 What you know about the unit and the test (all optional):
   --speed-ratio <N>      two-speed set: fine turns per coarse turn, an integer 2-1000
   --stick-off <DEG>      two-speed set: stick-off rotation of the coarse unit, -360 to 360 degrees
-  --shaft-at-zero        the shaft was held at electrical zero during the capture
-  --shaft-turned <dir>   the shaft was turned ccw or cw (seen from the shaft end)
+  --shaft-at-zero        the shaft started the capture at electrical zero
+  --shaft-turned <dir>   the shaft was then turned ccw or cw (seen from the shaft end);
+                         with these, swapped stator leads and a reversed rotor are named
   --accuracy-class <ARCMIN>  accuracy class, +/- arc-minutes, over 0 and at most 600
   --step <DEG>           stepped accuracy run: degrees between stops, over 0 and at most 180
   --stops <LIST>         stepped accuracy run: the nominal stops in degrees, e.g. 0,30,60,90
@@ -187,7 +188,6 @@ export function parseAnalysisOptions(values: OptionValues): CliAnalysisOptions {
   const turned = text('shaft-turned');
   if (turned !== undefined && turned !== 'ccw' && turned !== 'cw') throw new UsageError(`--shaft-turned must be ccw or cw, not "${turned}"`);
   const atZero = values['shaft-at-zero'] === true;
-  if (atZero && turned !== undefined) throw new UsageError('--shaft-at-zero and --shaft-turned contradict each other: the shaft either stayed at electrical zero or turned');
   const classArcmin = numberOption('accuracy-class', text('accuracy-class'), 0, 600, false);
   const stepDeg = numberOption('step', text('step'), 0, 180, false);
   const stopsText = text('stops');
@@ -214,7 +214,9 @@ export function parseAnalysisOptions(values: OptionValues): CliAnalysisOptions {
   return {
     ...(speedRatio !== undefined ? { speedRatio } : {}),
     ...(stickOffDeg !== undefined ? { stickOffDeg } : {}),
-    ...(atZero || turned !== undefined ? { shaftFacts: atZero ? { atElectricalZero: true } : { turned: turned as 'ccw' | 'cw' } } : {}),
+    ...(atZero || turned !== undefined
+      ? { shaftFacts: { ...(atZero ? { atElectricalZero: true } : {}), ...(turned !== undefined ? { turned: turned as 'ccw' | 'cw' } : {}) } }
+      : {}),
     ...(accuracy !== undefined ? { accuracy } : {}),
     ...(nullLimitMv !== undefined ? { nullLimitMv } : {}),
     ...(ratioTolerancePct !== undefined ? { ratioTolerancePct } : {}),

@@ -40,7 +40,10 @@ export interface CarrierEstimate {
 }
 
 const MIN_CYCLES = 3;
-const MAX_FIT_SAMPLES = 1 << 20;
+/** The IEEE 1057 fit runs on at most this many samples; the per-cycle track refines over the rest. */
+const MAX_FIT_SAMPLES = 1 << 18;
+const START_FFT_SAMPLES = 1 << 16;
+const MIN_START_CYCLES = 32;
 
 export function trackCarrier(
   sources: readonly ArrayLike<number>[],
@@ -51,7 +54,14 @@ export function trackCarrier(
 ): CarrierEstimate {
   const findings: Finding[] = [];
   const strongest = strongestChannel(sources, sampleCount);
-  const start = estimateToneFrequency(sources[strongest]!, sampleRateHz, { minHz: 20, maxHz: sampleRateHz * 0.45 });
+  // The FFT start needs only to land inside the sine fit's basin: a 2^16-sample segment does, as
+  // long as it holds enough carrier cycles for Grandke's interpolation (else a longer one).
+  const band = { minHz: 20, maxHz: sampleRateHz * 0.45 };
+  let start = estimateToneFrequency(sources[strongest]!, sampleRateHz, { ...band, length: Math.min(sampleCount, START_FFT_SAMPLES) });
+  if (start && sampleCount > START_FFT_SAMPLES && (start.frequencyHz * START_FFT_SAMPLES) / sampleRateHz < MIN_START_CYCLES) {
+    const needed = Math.ceil((MIN_START_CYCLES * sampleRateHz) / start.frequencyHz);
+    start = estimateToneFrequency(sources[strongest]!, sampleRateHz, { ...band, length: Math.min(sampleCount, 2 ** Math.ceil(Math.log2(needed))) });
+  }
   if (!start) {
     throw new CaptureError(
       `no carrier found in ${sourceKind === 'reference' ? 'the reference channel' : 'any stator channel'}: the signal is flat or empty; check the channel roles and that the excitation was on`,

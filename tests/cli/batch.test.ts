@@ -146,7 +146,6 @@ describe('analysis options on the command line', () => {
     [['--speed-ratio', '3.5'], /--speed-ratio needs a whole number/],
     [['--stick-off', '400'], /--stick-off must be from -360 to 360/],
     [['--shaft-turned', 'up'], /--shaft-turned must be ccw or cw/],
-    [['--shaft-at-zero', '--shaft-turned', 'cw'], /contradict/],
     [['--accuracy-class', '0'], /--accuracy-class must be over 0/],
     [['--step', 'ten'], /--step needs a number/],
     [['--step', '10', '--stops', '0,10'], /--step or --stops, not both/],
