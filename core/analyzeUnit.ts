@@ -156,7 +156,9 @@ export function analyzeUnit(ctx: UnitContext, group: UnitGroup, transmitterLeadD
     lines: solvedMembers.map((m) => ({
       role: formatRole(m.role),
       samples: capture.channels[m.channel]!.samples,
-      maxRmsV: lines.find((l) => l.role === formatRole(m.role))!.maxRmsV,
+      // The stator maximum of the unit, not the line's own largest reading: a line parked at its
+      // null never reaches its maximum, and the quadrature limit is a fraction of the maximum.
+      maxRmsV: figs.outputMaxRmsV,
     })),
     sampleRateHz: fs,
     carrier: carrier.track,

@@ -264,11 +264,9 @@ describe('null components at a static null (SAE AS20708B null definition)', () =
     within(n!.totalMv, totalMv);
   });
 
-  // Product bug (see report): the high-quadrature rule takes 0.5 % of the *line's own largest
-  // reading over the record* (nullVoltages ← analyzeUnit passes LineResult.maxRmsV), which on a
-  // shaft parked at a null is the null itself (17 mV here), so the limit becomes 0.09 mV. The rule's
-  // stated basis is the stator maximum (0.5 % of 11.8 V = 59 mV), which 14 mV of quadrature is far under.
-  it.fails('a 14 mV null quadrature (0.12 % of the 11.8 V stator maximum) raises no high-quadrature warning', () => {
+  // The high-quadrature rule is a fraction of the unit's stator maximum (0.5 % of 11.8 V = 59 mV),
+  // not of the line's own largest reading, which on a shaft parked at a null is the null itself.
+  it('a 14 mV null quadrature (0.12 % of the 11.8 V stator maximum) raises no high-quadrature warning', () => {
     const { analysis } = analyse(spec);
     expect(codes(analysis.findings)).not.toContain('high-quadrature');
   });
