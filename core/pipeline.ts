@@ -117,6 +117,7 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
     clippedFractions: used.map((ch) => clipped[ch]!),
   });
   findings.push(...quality.findings);
+  explainMainsOscillation(findings, carrier.frequencyHz);
 
   return {
     input: {
@@ -149,6 +150,33 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
     tracking: combined.tracking,
     findings,
   };
+}
+
+/**
+ * An angle oscillation at a mains frequency (or its alias through the one-per-cycle angle rate)
+ * while the lines carry mains hum is pickup leaking through the demodulator, not a hunting
+ * receiver: the hunting finding becomes an info that says so.
+ */
+function explainMainsOscillation(findings: Finding[], carrierHz: number): void {
+  if (!findings.some((f) => f.code === 'mains-hum')) return;
+  for (let i = 0; i < findings.length; i++) {
+    const f = findings[i]!;
+    const hz = f.figures?.frequencyHz;
+    if (f.code !== 'hunting' || hz === undefined) continue;
+    const nearMains = [50, 60].some((mains) =>
+      [1, 2, 3].some((k) => {
+        const tone = k * mains;
+        const alias = Math.abs(tone - carrierHz * Math.round(tone / carrierHz));
+        return Math.abs(hz - tone) < 1 || Math.abs(hz - alias) < 1;
+      }),
+    );
+    if (!nearMains) continue;
+    findings[i] = finding('hunting', 'info', `${f.message} It sits at a mains frequency, and the lines carry mains hum.`, {
+      advice: 'This is most likely hum leaking into the angle rather than a receiver hunting: remove the ground loop or shield the leads (see the mains-hum finding), then recapture.',
+      roles: f.roles,
+      ...(f.figures ? { figures: { ...f.figures } } : {}),
+    });
+  }
 }
 
 const isCt = (g: UnitGroup): boolean => g.members.some((m) => m.role.base === 'ct');
