@@ -1,5 +1,5 @@
 import type { Finding } from './model/findings.js';
-import type { TwoSpeedResult, UnitAngle, UnitResult } from './model/analysis.js';
+import type { TrackingResult, TwoSpeedResult, UnitAngle, UnitResult } from './model/analysis.js';
 import { combineTwoSpeed, detectSpeedRatio } from './motion/combineTwoSpeed.js';
 import { trackingError } from './motion/ctError.js';
 
@@ -7,7 +7,7 @@ export interface CombinedUnits {
   readonly twoSpeed: TwoSpeedResult | null;
   /** The combined angle of a two-speed set, else null. */
   readonly angle: UnitAngle | null;
-  readonly tracking: { readonly a: string; readonly b: string; readonly meanArcmin: number; readonly rmsArcmin: number; readonly maxAbsArcmin: number } | null;
+  readonly tracking: TrackingResult | null;
   readonly findings: Finding[];
 }
 
@@ -68,9 +68,9 @@ export function combineUnits(
     };
   }
   const [a, b] = withAngle;
-  const err = trackingError(a!.angle!.deg, b!.angle!.deg);
+  const err = trackingError(b!.angle!.deg, a!.angle!.deg); // b − a: the follower minus the first unit
   return {
     ...none,
-    tracking: { a: a!.id, b: b!.id, meanArcmin: err.meanArcmin, rmsArcmin: err.rmsArcmin, maxAbsArcmin: err.maxAbsArcmin },
+    tracking: { a: a!.id, b: b!.id, meanArcmin: err.meanArcmin, rmsArcmin: err.rmsArcmin, maxAbsArcmin: err.maxAbsArcmin, diffDeg: err.diffDeg },
   };
 }

@@ -41,8 +41,18 @@ export interface Analysis {
   /** A coarse/fine pair combined into one angle. */
   readonly twoSpeed: TwoSpeedResult | null;
   /** Two units that are not a two-speed pair: how well the second follows the first. */
-  readonly tracking: { readonly a: string; readonly b: string; readonly meanArcmin: number; readonly rmsArcmin: number; readonly maxAbsArcmin: number } | null;
+  readonly tracking: TrackingResult | null;
   readonly findings: readonly Finding[];
+}
+
+export interface TrackingResult {
+  readonly a: string;
+  readonly b: string;
+  readonly meanArcmin: number;
+  readonly rmsArcmin: number;
+  readonly maxAbsArcmin: number;
+  /** b minus a per cycle, wrapped, degrees. */
+  readonly diffDeg: Float64Array;
 }
 
 export interface TwoSpeedResult {

@@ -45,7 +45,7 @@ export function analysisToJson(analysis: Analysis, meta: ReportMeta): Record<str
     motion: motion(analysis.motion),
     accuracy: clean(analysis.accuracy),
     twoSpeed: analysis.twoSpeed && { ...(clean({ ...analysis.twoSpeed, coarseErrorDeg: undefined }) as object), coarseErrorDeg: roundArray(analysis.twoSpeed.coarseErrorDeg, 1e6) },
-    tracking: clean(analysis.tracking),
+    tracking: analysis.tracking && { ...(clean({ ...analysis.tracking, diffDeg: undefined }) as object), diffDeg: roundArray(analysis.tracking.diffDeg, 1e6) },
     findings: clean(analysis.findings),
   };
 }
