@@ -1,15 +1,8 @@
 import { parseArgs } from 'node:util';
+import type { AnalyzeOptions, RoleOptions } from '../../core/index.js';
 
-/** The analysis options the command line can set (a subset of core's AnalyzeOptions). */
-export interface CliAnalysisOptions {
-  readonly speedRatio?: number;
-  readonly stickOffDeg?: number;
-  readonly shaftFacts?: { readonly atElectricalZero?: boolean; readonly turned?: 'ccw' | 'cw' };
-  readonly accuracy?: { readonly classArcmin?: number; readonly stepDeg?: number; readonly nominalDeg?: readonly number[] };
-  readonly nullLimitMv?: number;
-  readonly ratioTolerancePct?: number;
-  readonly ctGradientVPerDeg?: number;
-}
+/** The analysis options the command line can set: core's AnalyzeOptions less the channel roles. */
+export type CliAnalysisOptions = Omit<AnalyzeOptions, keyof RoleOptions>;
 
 export interface AnalyzeCommand {
   readonly command: 'analyze';

@@ -2,7 +2,28 @@ import { composeDecimal, POW10 } from './composeDecimal.js';
 import { decodeUtf8 } from './decodeUtf8.js';
 import { OVERRANGE_MAGNITUDE, parseNumberText, unquoteCell } from './parseNumberText.js';
 import type { LineFindingCollector } from './collectLineFindings.js';
-import type { TimebaseTracker } from './trackTimebase.js';
+
+/** Receives each row's time stamp (TimebaseTracker, or a recorder for a body parsed apart). */
+export interface TimeStampSink {
+  add(tS: number, lastDigitExponent: number, factorS: number, row: number, line: number): void;
+}
+
+/**
+ * A per-line report held back instead of becoming a finding, with the line counted from the
+ * start of the part parsed: a body parsed in parts (one per thread) replays them in order.
+ */
+export type BodyEvent =
+  | { readonly kind: 'non-numeric'; readonly line: number; readonly col: number; readonly text: string }
+  | { readonly kind: 'empty'; readonly line: number; readonly col: number; readonly count: number }
+  | { readonly kind: 'overrange'; readonly line: number; readonly col: number; readonly text: string }
+  | { readonly kind: 'ragged'; readonly line: number; readonly cells: number; readonly tooMany: boolean };
+
+/** Held reports: the first `limit` per finding code in full, then only a count per code. */
+export interface HeldBodyEvents {
+  readonly limit: number;
+  readonly events: BodyEvent[];
+  readonly counts: Record<string, number>;
+}
 
 /** What the body parser does with each column of the file. */
 export const COLUMN_CHANNEL = 0;
@@ -66,12 +87,15 @@ export class NumericBodyParser {
 
   private readonly plan: BodyPlan;
   private readonly findings: LineFindingCollector;
-  private readonly timebase: TimebaseTracker | undefined;
+  private readonly timebase: TimeStampSink | undefined;
+  private readonly held: HeldBodyEvents | undefined;
 
-  constructor(plan: BodyPlan, findings: LineFindingCollector, timebase: TimebaseTracker | undefined) {
+  /** With `held`, per-line reports are kept there (see BodyEvent) instead of going to `findings`. */
+  constructor(plan: BodyPlan, findings: LineFindingCollector, timebase: TimeStampSink | undefined, held?: HeldBodyEvents) {
     this.plan = plan;
     this.findings = findings;
     this.timebase = timebase;
+    this.held = held;
     const initial = Math.min(Math.max(16, Math.min(plan.expectedRows > 0 ? plan.expectedRows : 4096, 1 << 28)), plan.maxSamples);
     this.capacity = initial;
     this.columns = [];
@@ -463,8 +487,60 @@ export class NumericBodyParser {
     return label ? ` ("${label}")` : '';
   }
 
+  /** Counts a held report of `code`; true while it is still to be kept in full. */
+  private hold(code: string): boolean {
+    const h = this.held!;
+    const n = h.counts[code] ?? 0;
+    h.counts[code] = n + 1;
+    return n < h.limit;
+  }
+
+  /**
+   * Reports a held event (from a part of the body parsed apart) as if it had been met here,
+   * its line shifted by `lineShift`.
+   */
+  replayEvent(e: BodyEvent, lineShift: number): void {
+    const line = e.line + lineShift;
+    if (e.kind === 'non-numeric') this.reportNonNumeric(line, e.col, e.text);
+    else if (e.kind === 'empty') this.reportEmpty(line, e.col, e.count);
+    else if (e.kind === 'overrange') this.reportOverrangeText(line, e.col, () => e.text);
+    else this.reportRagged(line, e.cells, e.tooMany);
+  }
+
+  /**
+   * Appends `rows` rows parsed apart (one column per file column, the channel ones filled) after
+   * the rows read so far; `nextLine` is the next physical line after them. Only between regions
+   * that end at a line break.
+   */
+  appendRows(columns: readonly (Float32Array | undefined)[], rows: number, nextLine: number): void {
+    if (!(Number.isInteger(rows) && rows >= 0)) throw new RangeError(`rows must be a non-negative integer, not ${rows}`);
+    const need = this.rows + rows;
+    if (need > this.capacity) {
+      for (let k = 0; k < this.columns.length; k++) {
+        const old = this.columns[k];
+        if (old.length === 0) continue;
+        const grown = new Float32Array(need);
+        grown.set(old.subarray(0, this.rows));
+        this.columns[k] = grown;
+      }
+      this.capacity = need;
+    }
+    for (let k = 0; k < this.columns.length; k++) {
+      if (this.plan.kinds[k] !== COLUMN_CHANNEL) continue;
+      const from = columns[k];
+      if (from === undefined || from.length < rows) throw new RangeError(`column ${k + 1} of the appended rows holds fewer than ${rows} values`);
+      this.columns[k].set(from.subarray(0, rows), this.rows);
+    }
+    this.rows = need;
+    this.line = nextLine;
+  }
+
   private reportNonNumeric(line: number, col: number, text: string): void {
     this.nonNumericCells++;
+    if (this.held !== undefined) {
+      if (this.hold('non-numeric-cell')) this.held.events.push({ kind: 'non-numeric', line, col, text });
+      return;
+    }
     this.findings.add('non-numeric-cell', 'warning', { line, column: col + 1 }, 'cells that are not numbers', () => ({
       message: `Line ${line}, column ${col + 1}${this.columnName(col)}: "${clip(text)}" is not a number; it is read as a missing sample.`,
       advice: 'Missing samples are skipped by the analysis; check the export for text in numeric columns.',
@@ -474,6 +550,10 @@ export class NumericBodyParser {
 
   private reportEmpty(line: number, col: number, count: number): void {
     this.emptyCells += count;
+    if (this.held !== undefined) {
+      if (this.hold('non-numeric-cell')) this.held.events.push({ kind: 'empty', line, col, count });
+      return;
+    }
     this.findings.add('non-numeric-cell', 'warning', { line, column: col + 1 }, 'cells that are not numbers', () => ({
       message: `Line ${line}, column ${col + 1}${this.columnName(col)} is empty${count > 1 ? ` (${count} empty cells in the row)` : ''}; read as a missing sample, not as 0.`,
       figures: { line, column: col + 1, emptyCells: count },
@@ -486,6 +566,10 @@ export class NumericBodyParser {
 
   private reportOverrangeText(line: number, col: number, textOf: () => string): void {
     this.overrangeCells++;
+    if (this.held !== undefined) {
+      if (this.hold('overrange')) this.held.events.push({ kind: 'overrange', line, col, text: textOf() });
+      return;
+    }
     this.findings.add('overrange', 'warning', { line, column: col + 1 }, 'overrange samples', () => ({
       message: `Line ${line}, column ${col + 1}${this.columnName(col)}: "${clip(textOf())}" marks a sample outside the scope's range; it is read as missing.`,
       advice: 'The input exceeded the vertical range; lower the volts/div or use a larger probe attenuation.',
@@ -495,6 +579,10 @@ export class NumericBodyParser {
 
   private reportRagged(line: number, cells: number, tooMany: boolean): void {
     this.raggedRows++;
+    if (this.held !== undefined) {
+      if (this.hold('ragged-row')) this.held.events.push({ kind: 'ragged', line, cells, tooMany });
+      return;
+    }
     const expected = this.plan.columnCount;
     this.findings.add('ragged-row', 'warning', { line }, 'rows with the wrong number of cells', () => ({
       message: tooMany

@@ -1,0 +1,252 @@
+import { LineFindingCollector } from './collectLineFindings.js';
+import { COLUMN_CHANNEL, NumericBodyParser, type BodyEvent, type BodyPlan, type HeldBodyEvents, type TimeStampSink } from './parseNumericBody.js';
+import type { TimebaseTracker } from './trackTimebase.js';
+
+/**
+ * What a later part of a capture's numeric body is parsed with, apart from the head (on another
+ * thread): the head's body plan, with lines counted from 1 at the first byte of the part. Plain
+ * data (structured-clone safe).
+ */
+export interface BodyPartPlan {
+  readonly body: BodyPlan;
+  /** True when the capture has a time column: the part then records its time stamps. */
+  readonly timeStamps: boolean;
+  /** Findings listed per code (LineFindingCollector.perCodeLimit of the head). */
+  readonly perCodeLimit: number;
+}
+
+/**
+ * A part of the body parsed apart: its rows with local row indices (from 0) and local line
+ * numbers (from 1), the per-line reports held back, and the time stamps unprocessed, so that
+ * merging it after the head (mergeBodyPart) replays exactly the calls a single pass makes.
+ * Every array is a plain typed array (transferable between threads).
+ */
+export interface BodyPart {
+  readonly rows: number;
+  /** Next local line after the part (1 + the physical lines it holds). */
+  readonly nextLine: number;
+  /** One entry per file column: the samples of a channel column, undefined otherwise. */
+  readonly columns: (Float32Array | undefined)[];
+  /** Per row: time stamp in seconds (NaN when not a number) and power of ten of its last digit. */
+  readonly timeS: Float64Array | undefined;
+  readonly timeExponent: Int32Array | undefined;
+  /** Pairs (row, local line) at the first row and wherever a row is not on the line after the previous row. */
+  readonly lineMarks: Int32Array;
+  readonly events: BodyEvent[];
+  readonly eventCounts: Record<string, number>;
+  readonly counters: { nonNumericCells: number; overrangeCells: number; emptyCells: number; raggedRows: number };
+  /** True when the part alone passed the row limit (it cannot be merged). */
+  readonly limited: boolean;
+}
+
+/** Stores each row's time stamp in order (the TimeStampSink of a part parsed apart). */
+class TimeStampRecorder implements TimeStampSink {
+  timeS: Float64Array;
+  exponent: Int32Array;
+  marks: Int32Array = new Int32Array(64);
+  markCount = 0;
+  private delta = NaN;
+  count = 0;
+
+  constructor(expectedRows: number) {
+    const n = Math.max(1024, expectedRows);
+    this.timeS = new Float64Array(n);
+    this.exponent = new Int32Array(n);
+  }
+
+  add(tS: number, lastDigitExponent: number, _factorS: number, row: number, line: number): void {
+    if (row !== this.count) throw new RangeError(`time stamps must arrive in row order (row ${row} after ${this.count} rows)`);
+    if (row === this.timeS.length) {
+      const n = Math.ceil(row * 1.5) + 1024;
+      const t = new Float64Array(n);
+      t.set(this.timeS);
+      this.timeS = t;
+      const e = new Int32Array(n);
+      e.set(this.exponent);
+      this.exponent = e;
+    }
+    this.timeS[row] = tS;
+    this.exponent[row] = lastDigitExponent;
+    this.count = row + 1;
+    this.noteLine(row, line);
+  }
+
+  noteLine(row: number, line: number): void {
+    if (line - row === this.delta) return;
+    this.delta = line - row;
+    if (this.markCount + 2 > this.marks.length) {
+      const m = new Int32Array(this.marks.length * 2);
+      m.set(this.marks);
+      this.marks = m;
+    }
+    this.marks[this.markCount++] = row;
+    this.marks[this.markCount++] = line;
+  }
+}
+
+/** Region size handed to the body parser (as the streaming importer does). */
+const REGION_BYTES = 64 * 1024;
+
+/**
+ * Parses a later part of a capture's body, given in chunks that may split lines anywhere; the
+ * part must begin at the start of a line. Same state machine as the single pass
+ * (NumericBodyParser), with the reports held (BodyEvent) and the time stamps recorded.
+ */
+export class BodyPartParser {
+  private readonly body: NumericBodyParser;
+  private readonly recorder: TimeStampRecorder | undefined;
+  private readonly held: HeldBodyEvents;
+  private readonly kinds: Uint8Array;
+  private carry = new Uint8Array(256);
+  private carryLength = 0;
+  private finished = false;
+
+  constructor(plan: BodyPartPlan) {
+    if (plan.body.firstLine !== 1) throw new RangeError('a body part counts its lines from 1');
+    this.kinds = plan.body.kinds;
+    this.held = { limit: plan.perCodeLimit, events: [], counts: {} };
+    this.recorder = plan.timeStamps ? new TimeStampRecorder(plan.body.expectedRows) : undefined;
+    this.body = new NumericBodyParser(plan.body, new LineFindingCollector(plan.perCodeLimit), this.recorder, this.held);
+  }
+
+  push(chunk: Uint8Array): void {
+    if (this.finished) throw new RangeError('push() called after finish()');
+    if (Object.getPrototypeOf(chunk) !== Uint8Array.prototype) chunk = new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
+    const n = chunk.length;
+    if (n === 0) return;
+    let last = n - 1;
+    while (last >= 0 && chunk[last] !== 10 && chunk[last] !== 13) last--;
+    if (last < 0) {
+      this.appendCarry(chunk);
+      return;
+    }
+    let from = 0;
+    if (this.carryLength > 0) {
+      let first = 0;
+      while (chunk[first] !== 10 && chunk[first] !== 13) first++;
+      this.appendCarry(chunk.subarray(0, first + 1));
+      this.body.parseRegion(this.carry, 0, this.carryLength);
+      this.carryLength = 0;
+      from = first + 1;
+    }
+    const end = last + 1;
+    while (from < end) {
+      let cut = from + REGION_BYTES;
+      if (cut >= end) cut = end;
+      else {
+        while (cut > from && chunk[cut - 1] !== 10 && chunk[cut - 1] !== 13) cut--;
+        if (cut === from) cut = end;
+      }
+      this.body.parseRegion(chunk, from, cut);
+      from = cut;
+    }
+    if (end < n) this.appendCarry(chunk.subarray(end));
+  }
+
+  finish(): BodyPart {
+    if (this.finished) throw new RangeError('finish() called twice');
+    this.finished = true;
+    if (this.carryLength > 0) {
+      this.appendCarry(new Uint8Array([10]));
+      this.body.parseRegion(this.carry, 0, this.carryLength);
+      this.carryLength = 0;
+    }
+    const b = this.body;
+    const rows = b.rows;
+    const columns = b.columns.map((c, k) => (this.kinds[k] === COLUMN_CHANNEL ? c.subarray(0, rows) : undefined));
+    const r = this.recorder;
+    return {
+      rows,
+      nextLine: b.line,
+      columns,
+      timeS: r?.timeS.subarray(0, r.count),
+      timeExponent: r?.exponent.subarray(0, r.count),
+      lineMarks: r ? r.marks.slice(0, r.markCount) : new Int32Array(0),
+      events: this.held.events,
+      eventCounts: this.held.counts,
+      counters: { nonNumericCells: b.nonNumericCells, overrangeCells: b.overrangeCells, emptyCells: b.emptyCells, raggedRows: b.raggedRows },
+      limited: b.limitLine > 0,
+    };
+  }
+
+  private appendCarry(bytes: Uint8Array): void {
+    const need = this.carryLength + bytes.length;
+    if (need > this.carry.length) {
+      const grown = new Uint8Array(Math.max(need, this.carry.length * 2));
+      grown.set(this.carry.subarray(0, this.carryLength));
+      this.carry = grown;
+    }
+    this.carry.set(bytes, this.carryLength);
+    this.carryLength = need;
+  }
+}
+
+/** Finding code and noun of each held report kind (as NumericBodyParser reports them). */
+const NOUN: Record<string, string> = {
+  'non-numeric-cell': 'cells that are not numbers',
+  overrange: 'overrange samples',
+  'ragged-row': 'rows with the wrong number of cells',
+};
+
+/**
+ * Appends a part parsed apart after the rows `body` has read (which must end at a line break),
+ * making exactly the calls a single pass over head and part makes: the held reports and the time
+ * stamps go to `body` and `timebase` in line order (a row's cell reports before its time stamp),
+ * rows shifted by the head's row count and lines by its line count; counts past the listing cap
+ * are added to `findings`. Returns false, changing nothing, when the part cannot be merged (it
+ * passed the row limit, or head and part together would): the caller then parses in one pass.
+ */
+export function mergeBodyPart(body: NumericBodyParser, timebase: TimebaseTracker | undefined, findings: LineFindingCollector, part: BodyPart, factorS: number, maxSamples: number): boolean {
+  if (part.limited || body.limitLine > 0 || body.rows + part.rows > maxSamples) return false;
+  if ((timebase !== undefined) !== (part.timeS !== undefined)) throw new RangeError('the part and the head disagree on the time column');
+  const rowShift = body.rows;
+  const lineShift = body.line - 1;
+  const counters = {
+    nonNumericCells: body.nonNumericCells + part.counters.nonNumericCells,
+    overrangeCells: body.overrangeCells + part.counters.overrangeCells,
+    emptyCells: body.emptyCells + part.counters.emptyCells,
+    raggedRows: body.raggedRows + part.counters.raggedRows,
+  };
+  const t = part.timeS;
+  const e = part.timeExponent;
+  const marks = part.lineMarks;
+  const stamps = t === undefined ? 0 : t.length;
+  let row = 0;
+  let mark = 0;
+  let delta = 0;
+  const lineOf = (r: number): number => {
+    while (mark < marks.length && marks[mark] <= r) {
+      delta = marks[mark + 1] - marks[mark];
+      mark += 2;
+    }
+    return r + delta;
+  };
+  const replayUntil = (line: number): void => {
+    if (timebase === undefined) return;
+    while (row < stamps) {
+      const l = lineOf(row);
+      if (l >= line) return;
+      timebase.add(t![row], e![row], factorS, row + rowShift, l + lineShift);
+      row++;
+    }
+  };
+  const listed: Record<string, number> = {};
+  for (const ev of part.events) {
+    replayUntil(ev.line);
+    body.replayEvent(ev, lineShift);
+    const code = ev.kind === 'ragged' ? 'ragged-row' : ev.kind === 'overrange' ? 'overrange' : 'non-numeric-cell';
+    listed[code] = (listed[code] ?? 0) + 1;
+  }
+  replayUntil(Infinity);
+  for (const code of Object.keys(part.eventCounts)) {
+    const more = part.eventCounts[code] - (listed[code] ?? 0);
+    // Past the cap only the count changes (the code was listed above, so its entry exists).
+    for (let k = 0; k < more; k++) findings.add(code, 'warning', { line: 1 }, NOUN[code] ?? code, () => ({ message: '' }));
+  }
+  body.appendRows(part.columns, part.rows, part.nextLine + lineShift);
+  body.nonNumericCells = counters.nonNumericCells;
+  body.overrangeCells = counters.overrangeCells;
+  body.emptyCells = counters.emptyCells;
+  body.raggedRows = counters.raggedRows;
+  return true;
+}
