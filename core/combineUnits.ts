@@ -1,4 +1,4 @@
-import type { Finding } from './model/findings.js';
+import { finding, type Finding } from './model/findings.js';
 import type { TrackingResult, TwoSpeedResult, UnitAngle, UnitResult } from './model/analysis.js';
 import { combineTwoSpeed, detectSpeedRatio } from './motion/combineTwoSpeed.js';
 import { trackingError } from './motion/ctError.js';
@@ -43,7 +43,15 @@ export function combineUnits(
     const detected = detectSpeedRatio(coarse.angle!.unwrappedDeg, fine.angle!.unwrappedDeg);
     const speedRatio = options.speedRatio ?? labelRatio ?? detected;
     if (speedRatio === undefined) {
-      return none;
+      return {
+        ...none,
+        findings: [
+          finding('two-speed-ratio-unknown', 'warning', `Units "${coarse.id}" and "${fine.id}" look like a two-speed set, but the coarse unit turned too little to tell the speed ratio.`, {
+            advice: 'Give the ratio with --speed-ratio (e.g. 36), or capture while the shaft turns at least 10°.',
+            roles: [...coarse.roles, ...fine.roles],
+          }),
+        ],
+      };
     }
     const source: TwoSpeedResult['speedRatioSource'] = options.speedRatio !== undefined ? 'given' : labelRatio !== undefined ? 'label' : 'detected';
     const combined = combineTwoSpeed(coarse.angle!.deg, fine.angle!.deg, speedRatio, {

@@ -2,6 +2,7 @@ import type { Capture, CaptureChannel } from '../model/capture.js';
 import { CaptureError } from '../model/errors.js';
 import { finding, type Finding } from '../model/findings.js';
 import { LineFindingCollector } from './collectLineFindings.js';
+import { mergeBodyPart, type BodyPart, type BodyPartPlan } from './parseBodyPart.js';
 import { COLUMN_CHANNEL, COLUMN_IGNORED, COLUMN_TIME, NumericBodyParser, type BodyPlan } from './parseNumericBody.js';
 import { SNIFF_BYTES, sniffCaptureLayout, type SniffedLayout } from './sniffCaptureLayout.js';
 import { TimebaseTracker } from './trackTimebase.js';
@@ -56,6 +57,33 @@ export interface CaptureParser {
   finish(): ImportResult;
 }
 
+/**
+ * A capture parser whose body can be finished by a part parsed elsewhere (another thread): push
+ * the head of the file up to a line start, take bodyPartPlan(), parse the rest with
+ * BodyPartParser, then finishWithPart(). The result is the one a single pass gives.
+ */
+export interface SplittableCaptureParser extends CaptureParser {
+  /**
+   * The plan for parsing the bytes after those pushed so far apart (`partBytes` long), or
+   * undefined when they cannot be: layout not sniffed yet, not UTF-8, CR-only line ends, an
+   * error or the row limit already met. The plan holds however far the head is pushed, but the
+   * head must end with a line feed (LF, or the LF of a CRLF) before finishWithPart().
+   */
+  bodyPartPlan(partBytes: number): BodyPartPlan | undefined;
+  /**
+   * Ends the input with the part parsed from the plan; undefined (the parser is then spent) when
+   * the rows together pass the row limit: parse the file in one pass for the exact error.
+   * Throws CaptureError for an unusable file, as finish() does.
+   */
+  finishWithPart(part: BodyPart): ImportResult | undefined;
+}
+
+/** createCaptureParser, with the split-body methods. */
+export function createSplittableCaptureParser(options: ImportOptions = {}): SplittableCaptureParser {
+  checkOptions(options);
+  return new StreamingCaptureParser(options);
+}
+
 /** Relative disagreement between a preamble interval and the time column worth a finding. */
 const INTERVAL_MISMATCH = 1e-3;
 
@@ -102,7 +130,7 @@ function checkOptions(o: ImportOptions): void {
   }
 }
 
-class StreamingCaptureParser implements CaptureParser {
+class StreamingCaptureParser implements SplittableCaptureParser {
   private readonly head: Uint8Array[] = [];
   private headBytes = 0;
   private sniffed: SniffedLayout | undefined;
@@ -116,6 +144,9 @@ class StreamingCaptureParser implements CaptureParser {
   private carry = new Uint8Array(256);
   private carryLength = 0;
   private finished = false;
+  private bodyPlan: BodyPlan | undefined;
+  private dataBytes = 0;
+  private lastPushedByte = -1;
 
   private readonly options: ImportOptions;
 
@@ -127,6 +158,7 @@ class StreamingCaptureParser implements CaptureParser {
     if (!(chunk instanceof Uint8Array)) throw new TypeError('push() takes a Uint8Array');
     if (this.finished) throw new RangeError('push() called after finish()');
     if (this.error !== undefined || chunk.length === 0) return;
+    this.lastPushedByte = chunk[chunk.length - 1];
     // One element type for the hot loops: a Uint8Array subclass (e.g. Node's Buffer) has another
     // map, and a mix of both makes every byte load polymorphic.
     if (Object.getPrototypeOf(chunk) !== Uint8Array.prototype) chunk = new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
@@ -154,6 +186,31 @@ class StreamingCaptureParser implements CaptureParser {
       this.carryLength = 0;
     }
     return this.result();
+  }
+
+  bodyPartPlan(partBytes: number): BodyPartPlan | undefined {
+    if (!(Number.isFinite(partBytes) && partBytes >= 0)) throw new RangeError(`partBytes must be a non-negative finite number, not ${partBytes}`);
+    const s = this.sniffed;
+    const body = this.body;
+    const plan = this.bodyPlan;
+    if (this.finished || this.error !== undefined || s === undefined || body === undefined || plan === undefined) return undefined;
+    if (this.encoding !== 'utf-8' || s.lineEnding === 'cr' || body.limitLine > 0) return undefined;
+    // Rows to presize: the head's estimate for the whole body, in proportion to the part's bytes.
+    const expectedRows = plan.expectedRows > 0 && this.dataBytes > 0 ? Math.ceil((plan.expectedRows * partBytes) / this.dataBytes) + 64 : 0;
+    return {
+      body: { ...plan, firstLine: 1, expectedRows: Math.min(expectedRows, plan.maxSamples) },
+      timeStamps: this.timebase !== undefined,
+      perCodeLimit: this.findings.perCodeLimit,
+    };
+  }
+
+  finishWithPart(part: BodyPart): ImportResult | undefined {
+    if (this.finished) throw new RangeError('finishWithPart() called after finish()');
+    if (this.bodyPartPlan(0) === undefined) throw new RangeError('finishWithPart() needs a parser that gave a body part plan');
+    if (this.lastPushedByte !== 10 || this.carryLength > 0) throw new RangeError('finishWithPart() needs the bytes pushed to end with a line feed');
+    this.finished = true;
+    const merged = mergeBodyPart(this.body!, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples);
+    return merged ? this.result() : undefined;
   }
 
   private sniff(final: boolean): void {
@@ -215,6 +272,8 @@ class StreamingCaptureParser implements CaptureParser {
       maxSamples: this.options.maxSamples ?? Infinity,
       growthFactor: this.options.sizeHintBytes !== undefined && this.encoding === 'utf-8' ? 1.25 : 2,
     };
+    this.bodyPlan = plan;
+    this.dataBytes = this.options.sizeHintBytes !== undefined ? Math.max(0, this.options.sizeHintBytes - s.dataOffset) : 0;
     if (s.timeColumn !== null) this.timebase = new TimebaseTracker(s.referenceIntervalS, this.findings);
     this.body = new NumericBodyParser(plan, this.findings, this.timebase);
     this.feed(buf.subarray(s.dataOffset));

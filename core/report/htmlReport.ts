@@ -25,7 +25,7 @@ export function renderHtmlReport(analysis: Analysis, meta: ReportMeta): string {
 <style>
 body{font:14px/1.4 system-ui,sans-serif;max-width:60rem;margin:2rem auto;color:#222}
 table{border-collapse:collapse}td,th{border:1px solid #bbb;padding:2px 8px;text-align:left}
-pre{background:#f4f4f4;padding:8px;overflow:auto}.warning b{color:#a60}.error b{color:#b00}
+pre{background:#f4f4f4;padding:8px;white-space:pre-wrap}.warning b{color:#a60}.error b{color:#b00}
 .caution{border:2px solid #b00;padding:8px}
 </style></head><body>
 <h1>${esc(title)}</h1>
@@ -34,7 +34,7 @@ pre{background:#f4f4f4;padding:8px;overflow:auto}.warning b{color:#a60}.error b{
 <table><tr><th>unit</th><th>kind</th><th>roles</th><th>transformation ratio</th><th>phase lead (°)</th></tr>${units}</table>
 <h2>Shaft angle</h2>
 ${analysis.angle ? angleChart(analysis.angle) : '<p>No angle could be solved.</p>'}
-<h2>Findings</h2>
+${stepsTable(analysis)}${accuracyTable(analysis)}<h2>Findings</h2>
 ${findings}
 <h2>Summary</h2>
 <pre>${esc(formatSummary(analysis, meta))}</pre>
@@ -80,6 +80,31 @@ function angleChart(angle: UnitAngle): string {
 <text x="4" y="26" font-size="11">${hi.toFixed(2)}°</text><text x="4" y="${h - 20}" font-size="11">${lo.toFixed(2)}°</text>
 <text x="50" y="${h - 4}" font-size="11">${t0.toFixed(3)} s</text><text x="${w - 60}" y="${h - 4}" font-size="11">${t1.toFixed(3)} s</text>
 <polyline fill="none" stroke="#1660a8" stroke-width="1.2" points="${points.join(' ')}"/></svg>`;
+}
+
+function stepsTable(analysis: Analysis): string {
+  const steps = analysis.motion?.steps ?? [];
+  if (steps.length === 0) return '';
+  const rows = steps
+    .map(
+      (s) =>
+        `<tr><td>${num(s.tS, 3)}</td><td>${num(s.sizeDeg, 3)}</td><td>${num(s.overshootPct, 1)}</td><td>${num(s.riseTimeS, 4)}</td><td>${num(s.settlingS, 3)}</td><td>${num(s.dampingRatio, 3)}</td><td>${num(s.naturalHz, 2)}</td></tr>`,
+    )
+    .join('');
+  return `<h2>Steps</h2>
+<table><tr><th>start (s)</th><th>size (°)</th><th>overshoot (%)</th><th>10–90 % rise (s)</th><th>2 % settling (s)</th><th>damping ratio</th><th>natural frequency (Hz)</th></tr>${rows}</table>
+`;
+}
+
+function accuracyTable(analysis: Analysis): string {
+  const acc = analysis.accuracy;
+  if (!acc) return '';
+  const rows = acc.positions
+    .map((p) => `<tr><td>${num(p.nominalDeg, 2)}</td><td>${num(p.measuredDeg, 4)}</td><td>${num(p.errorArcmin, 2)}</td></tr>`)
+    .join('');
+  return `<h2>Accuracy (${esc(acc.mode)} run, spread ${num(acc.ppArcmin, 2)}′ p-p)</h2>
+<table><tr><th>nominal (°)</th><th>measured (°)</th><th>error (′)</th></tr>${rows}</table>
+`;
 }
 
 function num(v: number | null, digits: number): string {
