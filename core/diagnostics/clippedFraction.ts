@@ -6,16 +6,32 @@
  */
 export function clippedFraction(samples: Float32Array, sampleCount: number, samplesPerPeriod: number): number {
   if (sampleCount === 0) return 0;
-  // Two tight passes (extremes, then runs on them) beat one branchy pass over runs of noise.
+  // Pass 1: the extremes and how many samples sit on each. Pass 2 (runs on the extremes) is only
+  // needed when enough samples sit there to form a flat top, which a clean capture never has.
   let lo = Infinity;
   let hi = -Infinity;
+  let nLo = 0;
+  let nHi = 0;
   for (let i = 0; i < sampleCount; i++) {
     const v = samples[i]!;
-    if (v < lo) lo = v;
-    if (v > hi) hi = v;
+    if (v <= lo) {
+      if (v < lo) {
+        lo = v;
+        nLo = 0;
+      }
+      nLo++;
+    }
+    if (v >= hi) {
+      if (v > hi) {
+        hi = v;
+        nHi = 0;
+      }
+      nHi++;
+    }
   }
   if (!(hi > lo)) return 0;
   const minRun = Math.max(4, Math.round(samplesPerPeriod / 20));
+  if (nLo < minRun && nHi < minRun) return 0;
   let clipped = 0;
   for (let i = 0; i < sampleCount; i++) {
     const v = samples[i]!;
