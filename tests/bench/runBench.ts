@@ -186,7 +186,7 @@ async function main(): Promise<void> {
 function printTable(results: Row[]): void {
   const f = (v: number | null, d: number, w: number): string => (v === null ? '-' : v.toFixed(d)).padStart(w);
   const header =
-    'rows       file MB  import s  MB/s  carrier s  demod s  angle s  diag s  analyze s | CLI wall s  RSS MB | pandas wall s  RSS MB  (import s) | wall ratio  RSS ratio';
+    'rows       file MB  import s  MB/s  carrier s  demod s  Msamp/s  angle s  diag s  analyze s | CLI wall s  RSS MB | pandas wall s  RSS MB  (import s) | wall ratio  RSS ratio';
   const lines = results.map((r) =>
     [
       String(r.rows).padEnd(9),
@@ -195,6 +195,7 @@ function printTable(results: Row[]): void {
       f(r.importMBps, 0, 5),
       f(r.carrierS, 3, 10),
       f(r.demodS, 3, 8),
+      f(r.demodSamplesPerS / 1e6, 0, 8),
       f(r.angleS, 3, 8),
       f(r.diagnosticsS, 3, 7),
       f(r.analyzeS, 3, 10),
