@@ -80,7 +80,8 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
   // The primary trace: a two-speed set's combined angle, else the first unit with an angle.
   const combined = combineUnits(units, options);
   findings.push(...combined.findings);
-  const firstWithAngle = unitAnalyses.find((u) => u.result.angle !== null);
+  const firstWithAngle =
+    unitAnalyses.find((u) => u.result.angle !== null && u.result.angleValid) ?? unitAnalyses.find((u) => u.result.angle !== null);
   const primary = combined.angle ?? firstWithAngle?.result.angle ?? null;
   const motion = combined.angle ? analyzeMotion(combined.angle.t, combined.angle.unwrappedDeg, { roles: firstWithAngle?.result.roles ?? [] }) : firstWithAngle?.motion ?? null;
   if (combined.angle && motion) findings.push(...motion.findings);
