@@ -1,5 +1,6 @@
-// Bundles the command-line tool into CommonJS files that run under plain Node: the CLI itself and
-// the worker thread it starts for batch runs (loaded from the same folder).
+// Bundles the command-line tool into CommonJS files that run under plain Node: the CLI itself,
+// the worker thread it starts for batch runs and the one that parses half of a large capture
+// (both loaded from the same folder).
 import { build } from 'esbuild';
 import { chmod } from 'node:fs/promises';
 
@@ -8,5 +9,6 @@ const outfile = 'dist/cli/statorscope.js';
 await Promise.all([
   build({ ...common, entryPoints: ['app/cli/statorscope.ts'], outfile }),
   build({ ...common, entryPoints: ['app/cli/analysisWorker.ts'], outfile: 'dist/cli/analysisWorker.js' }),
+  build({ ...common, entryPoints: ['app/cli/parseWorker.ts'], outfile: 'dist/cli/parseWorker.js' }),
 ]);
 await chmod(outfile, 0o755);

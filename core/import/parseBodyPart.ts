@@ -29,7 +29,8 @@ export interface BodyPart {
   readonly columns: (Float32Array | undefined)[];
   /** Per row: time stamp in seconds (NaN when not a number) and power of ten of its last digit. */
   readonly timeS: Float64Array | undefined;
-  readonly timeExponent: Int32Array | undefined;
+  /** Clamped to the int16 range, which changes nothing: powerOfTen() saturates beyond ±324. */
+  readonly timeExponent: Int16Array | undefined;
   /** Pairs (row, local line) at the first row and wherever a row is not on the line after the previous row. */
   readonly lineMarks: Int32Array;
   readonly events: BodyEvent[];
@@ -42,7 +43,7 @@ export interface BodyPart {
 /** Stores each row's time stamp in order (the TimeStampSink of a part parsed apart). */
 class TimeStampRecorder implements TimeStampSink {
   timeS: Float64Array;
-  exponent: Int32Array;
+  exponent: Int16Array;
   marks: Int32Array = new Int32Array(64);
   markCount = 0;
   private delta = NaN;
@@ -51,7 +52,7 @@ class TimeStampRecorder implements TimeStampSink {
   constructor(expectedRows: number) {
     const n = Math.max(1024, expectedRows);
     this.timeS = new Float64Array(n);
-    this.exponent = new Int32Array(n);
+    this.exponent = new Int16Array(n);
   }
 
   add(tS: number, lastDigitExponent: number, _factorS: number, row: number, line: number): void {
@@ -61,12 +62,12 @@ class TimeStampRecorder implements TimeStampSink {
       const t = new Float64Array(n);
       t.set(this.timeS);
       this.timeS = t;
-      const e = new Int32Array(n);
+      const e = new Int16Array(n);
       e.set(this.exponent);
       this.exponent = e;
     }
     this.timeS[row] = tS;
-    this.exponent[row] = lastDigitExponent;
+    this.exponent[row] = lastDigitExponent > 32767 ? 32767 : lastDigitExponent < -32768 ? -32768 : lastDigitExponent;
     this.count = row + 1;
     this.noteLine(row, line);
   }
@@ -214,20 +215,20 @@ export function mergeBodyPart(body: NumericBodyParser, timebase: TimebaseTracker
   let row = 0;
   let mark = 0;
   let delta = 0;
-  const lineOf = (r: number): number => {
-    while (mark < marks.length && marks[mark] <= r) {
-      delta = marks[mark + 1] - marks[mark];
-      mark += 2;
-    }
-    return r + delta;
-  };
+  // Replays the time stamps of the rows on lines before `line`, a run of rows with one
+  // line-row offset at a time (the offset changes only at a line mark).
   const replayUntil = (line: number): void => {
     if (timebase === undefined) return;
     while (row < stamps) {
-      const l = lineOf(row);
-      if (l >= line) return;
-      timebase.add(t![row], e![row], factorS, row + rowShift, l + lineShift);
-      row++;
+      while (mark < marks.length && marks[mark] <= row) {
+        delta = marks[mark + 1] - marks[mark];
+        mark += 2;
+      }
+      const runEnd = Math.min(mark < marks.length ? marks[mark] : stamps, stamps, Math.max(row, line - delta));
+      if (runEnd <= row) return;
+      const shift = delta + lineShift;
+      for (let r = row; r < runEnd; r++) timebase.add(t![r], e![r], factorS, r + rowShift, r + shift);
+      row = runEnd;
     }
   };
   const listed: Record<string, number> = {};

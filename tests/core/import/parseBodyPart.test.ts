@@ -117,8 +117,13 @@ function parseSplit(bytes: Uint8Array, at: number, chunk: number): ImportResult 
   return head.finishWithPart(structuredClone(part.finish()));
 }
 
-function bitsOf(a: Float32Array): Uint32Array {
-  return new Uint32Array(a.buffer, a.byteOffset, a.length);
+/** Index of the first sample whose bits differ, -1 when none does. */
+function firstBitDifference(a: Float32Array, b: Float32Array): number {
+  const x = new Uint32Array(a.buffer, a.byteOffset, a.length);
+  const y = new Uint32Array(b.buffer, b.byteOffset, b.length);
+  if (x.length !== y.length) return Math.min(x.length, y.length);
+  for (let i = 0; i < x.length; i++) if (x[i] !== y[i]) return i;
+  return -1;
 }
 
 /** Identical results: samples bit for bit, same findings and layout, interval to 1e-12 relative. */
@@ -129,8 +134,7 @@ function expectSame(got: ImportResult, want: ImportResult): void {
   expect(got.capture.channels.map((c) => [c.column, c.label, c.unit])).toEqual(want.capture.channels.map((c) => [c.column, c.label, c.unit]));
   got.capture.channels.forEach((c, k) => {
     const w = want.capture.channels[k].samples;
-    expect(c.samples.length).toBe(w.length);
-    expect(bitsOf(c.samples)).toEqual(bitsOf(w));
+    expect(firstBitDifference(c.samples, w)).toBe(-1);
   });
   // Sums over the two parts are added in another order: 1e-12 relative (common practice, no source).
   expect(Math.abs(got.capture.sampleRateHz / want.capture.sampleRateHz - 1)).toBeLessThan(1e-12);
@@ -146,19 +150,17 @@ describe('a body parsed in two parts and merged gives the single-pass result', (
         const single = parseCaptureBytes(bytes);
         if (defects) expect(single.findings.length).toBeGreaterThan(5);
         const starts = lineStarts(bytes);
-        const eolLength = layout.lineEnding === 'crlf' ? 2 : 1;
         // Line k (0-based in the text) starts at starts[k - 1] (BOM bytes included in offsets).
         const positions = new Set<number>();
-        for (const k of marks) for (let dk = -2; dk <= 2; dk++) positions.add(starts[k + dk - 1]);
+        for (const k of marks) for (let dk = -1; dk <= 1; dk++) positions.add(starts[k + dk - 1]);
         const rnd = createRandom(99);
-        for (let j = 0; j < 12; j++) positions.add(starts[Math.floor(2000 + rnd.uniform() * (starts.length - 2001))]);
+        for (let j = 0; j < 6; j++) positions.add(starts[Math.floor(2000 + rnd.uniform() * (starts.length - 2001))]);
         positions.add(starts[starts.length - 1]); // the part holds at most the last line
         for (const at of positions) {
           const merged = parseSplit(bytes, at, 4096 + (at % 5000));
           expect(merged, `split at byte ${at}`).toBeDefined();
           expectSame(merged!, single);
         }
-        expect(eolLength).toBeGreaterThan(0);
       });
     }
   }
@@ -205,15 +207,18 @@ describe('a body parsed in two parts and merged gives the single-pass result', (
     const starts = lineStarts(bytes);
     const at = starts[4500];
     const rows = parseCaptureBytes(bytes).capture.sampleCount;
-    const run = (maxSamples: number): ImportResult | undefined => {
+    const run = (maxSamples: number): ImportResult | undefined | 'no plan' => {
       const head = createSplittableCaptureParser({ sizeHintBytes: bytes.length, maxSamples });
       head.push(bytes.subarray(0, at));
-      const part = new BodyPartParser(head.bodyPartPlan(bytes.length - at)!);
+      const plan = head.bodyPartPlan(bytes.length - at);
+      if (plan === undefined) return 'no plan';
+      const part = new BodyPartParser(plan);
       part.push(bytes.subarray(at));
       return head.finishWithPart(part.finish());
     };
     expect(run(rows - 1)).toBeUndefined();
-    expect(run(1000)).toBeUndefined();
-    expectSame(run(rows)!, parseCaptureBytes(bytes, { maxSamples: rows }));
+    // The head alone passed the limit: no plan, the single pass reports it.
+    expect(run(1000)).toBe('no plan');
+    expectSame(run(rows) as ImportResult, parseCaptureBytes(bytes, { maxSamples: rows }));
   });
 });
