@@ -11,7 +11,7 @@ export interface SourceLocation {
 }
 
 export interface Finding {
-  /** Stable kebab-case code, e.g. "no-reference" (design.md §3 vocabulary; never renamed). */
+  /** Stable kebab-case code, e.g. "no-reference" (the vocabulary in DEVELOPERS.md; never renamed). */
   readonly code: string;
   readonly severity: Severity;
   /** One plain sentence: what was seen. */
