@@ -105,13 +105,15 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
       // The worker failed: parse the second half here.
       split.onSplit?.('worker-failed');
       limit = size;
+      which = 0;
       pending = next(buffers[0]!);
       for (;;) {
         const { bytesRead, buffer } = await pending;
         if (bytesRead === 0) break;
+        // Push before the next read is issued into the other buffer, never into this one.
+        parser.push(buffer.subarray(0, bytesRead));
         which ^= 1;
         pending = next(buffers[which]!);
-        parser.push(buffer.subarray(0, bytesRead));
       }
       return parser.finish();
     }

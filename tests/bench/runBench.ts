@@ -70,7 +70,8 @@ async function measure(rows: number, withAnchor: boolean): Promise<Row> {
   const jsonOut = join(benchFolder(), `out-${rows}.json`);
 
   let t = performance.now();
-  const { capture } = await readCaptureFile(path);
+  // The CLI's own reader, with the CLI's bundled parse worker (the bench bundle lives elsewhere).
+  const { capture } = await readCaptureFile(path, {}, { workerScript: join(process.cwd(), 'dist', 'cli', 'parseWorker.js') });
   const importS = (performance.now() - t) / 1000;
   if (capture.sampleCount !== rows) throw new Error(`imported ${capture.sampleCount} rows, expected ${rows}`);
 

@@ -115,6 +115,19 @@ describe('readCaptureFile on two threads', () => {
     expect(how).toEqual(['merge-refused']);
   }, 60_000);
 
+  it('a failing worker on a file of many chunks: this thread reads the rest without losing a row', async () => {
+    // Several MiB after the split point, so the fallback reads many chunks through its two
+    // alternating buffers (a read issued into the buffer still being parsed would lose rows).
+    const path = writeCapture('fallback-big.csv', CSV_LAYOUTS.plain, 200_000, 14);
+    const single = await readSplit(path, { minBytes: Infinity });
+    const bad = join(dir, 'badWorker2.js');
+    writeFileSync(bad, "throw new Error('no worker today');\n");
+    const failed = await readSplit(path, { splitAt: 1_500_000, workerScript: bad });
+    expect(failed.how).toEqual(['worker-failed']);
+    expect(failed.result.capture.sampleCount).toBe(200_000);
+    expectSame(failed.result, single.result);
+  }, 60_000);
+
   it('does not split UTF-16 or CR-only files', async () => {
     const lf = writeCapture('cr.csv', CSV_LAYOUTS.plain, 30000, 13);
     const text = (await import('node:fs')).readFileSync(lf, 'utf8');
