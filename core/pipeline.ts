@@ -20,8 +20,10 @@ export type { AnalyzeOptions };
 const STATOR_BASES = new Set(['s1s3', 's3s2', 's2s1', 's3s1', 's2s3', 's1s2', 'sin', 'cos', 'ct']);
 
 /**
- * The whole pipeline on one imported capture: roles → carrier → per-cycle phasors → angle per
- * unit. Bad data becomes findings; a capture that cannot be analysed throws one CaptureError.
+ * The whole pipeline on one imported capture: roles → carrier → per-cycle phasors → each unit
+ * (wiring, angle, unit figures, motion, harmonics, nulls, plane; a CT's error) → units together
+ * (two-speed, tracking) → accuracy run → shaft facts → capture quality. Bad data becomes
+ * findings; a capture that cannot be analysed throws one CaptureError.
  */
 export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): Analysis {
   const assignment = assignRoles(capture, options);
@@ -40,6 +42,9 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
 
   const hasRef = refIndex >= 0;
   const carrierChannels = hasRef ? [refIndex] : statorIndices.filter((i) => roles[i]!.base !== 'ct');
+  if (carrierChannels.length === 0) {
+    throw new CaptureError('a control-transformer output alone does not give the carrier phase; capture the excitation (R1-R2) as well');
+  }
   const sourceRoles = carrierChannels.map((i) => formatRole(roles[i]!));
   const carrier = trackCarrier(
     carrierChannels.map((i) => capture.channels[i]!.samples),

@@ -126,3 +126,17 @@ describe('analyzeCapture on harder captures', () => {
     expect(Array.from(chunked.angle!.deg)).toEqual(Array.from(whole.angle!.deg));
   });
 });
+
+describe('analyzeCapture refusals', () => {
+  it('a CT output without the excitation is one clear CaptureError, not a crash', () => {
+    const syn = synthesizeCapture(spec(MOTIONS.static!, { includeReference: false }));
+    const capture = { ...syn.capture, channels: [{ ...syn.capture.channels[0]!, label: 'CT' }] };
+    expect(() => analyzeCapture(capture)).toThrow(/control-transformer output alone/);
+  });
+
+  it('no stator channel at all is one clear CaptureError naming the channels', () => {
+    const syn = synthesizeCapture(spec(MOTIONS.static!));
+    const capture = { ...syn.capture, channels: [syn.capture.channels[0]!] };
+    expect(() => analyzeCapture(capture)).toThrow(/no stator channel found among "R1-R2"/);
+  });
+});
