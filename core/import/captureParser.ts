@@ -1,3 +1,4 @@
+import { LineRegionFeeder } from './lineRegionFeeder.js';
 import type { Capture, CaptureChannel } from '../model/capture.js';
 import { CaptureError } from '../model/errors.js';
 import { finding, type Finding } from '../model/findings.js';
@@ -88,7 +89,6 @@ export function createSplittableCaptureParser(options: ImportOptions = {}): Spli
 const INTERVAL_MISMATCH = 1e-3;
 
 /** Size of the slices handed to the body parser. */
-const REGION_BYTES = 64 * 1024;
 
 const DELIMITER_BYTE = { ',': 44, ';': 59, '\t': 9, ' ': 32 } as const;
 
@@ -141,8 +141,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
   private transcoder: Utf16ToUtf8 | undefined;
   private encoding: 'utf-8' | 'utf-16le' | 'utf-16be' = 'utf-8';
   private bom = false;
-  private carry = new Uint8Array(256);
-  private carryLength = 0;
+  private feeder: LineRegionFeeder | undefined;
   private finished = false;
   private bodyPlan: BodyPlan | undefined;
   private dataBytes = 0;
@@ -180,11 +179,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     }
     if (this.error !== undefined) throw this.error;
     if (this.transcoder) this.feed(this.transcoder.finish());
-    if (this.carryLength > 0) {
-      this.appendCarry(new Uint8Array([10]));
-      this.body!.parseRegion(this.carry, 0, this.carryLength);
-      this.carryLength = 0;
-    }
+    this.feeder!.flush();
     return this.result();
   }
 
@@ -207,7 +202,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
   finishWithPart(part: BodyPart): ImportResult | undefined {
     if (this.finished) throw new RangeError('finishWithPart() called after finish()');
     if (this.bodyPartPlan(0) === undefined) throw new RangeError('finishWithPart() needs a parser that gave a body part plan');
-    if (this.lastPushedByte !== 10 || this.carryLength > 0) throw new RangeError('finishWithPart() needs the bytes pushed to end with a line feed');
+    if (this.lastPushedByte !== 10 || this.feeder!.pendingBytes > 0) throw new RangeError('finishWithPart() needs the bytes pushed to end with a line feed');
     this.finished = true;
     const merged = mergeBodyPart(this.body!, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples);
     return merged ? this.result() : undefined;
@@ -275,7 +270,9 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     this.bodyPlan = plan;
     this.dataBytes = this.options.sizeHintBytes !== undefined ? Math.max(0, this.options.sizeHintBytes - s.dataOffset) : 0;
     if (s.timeColumn !== null) this.timebase = new TimebaseTracker(s.referenceIntervalS, this.findings);
-    this.body = new NumericBodyParser(plan, this.findings, this.timebase);
+    const body = new NumericBodyParser(plan, this.findings, this.timebase);
+    this.body = body;
+    this.feeder = new LineRegionFeeder((bytes, from, to) => body.parseRegion(bytes, from, to));
     this.feed(buf.subarray(s.dataOffset));
   }
 
@@ -305,51 +302,9 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     return announced > 0 ? Math.min(announced, estimate) : estimate;
   }
 
-  private appendCarry(bytes: Uint8Array): void {
-    const need = this.carryLength + bytes.length;
-    if (need > this.carry.length) {
-      const grown = new Uint8Array(Math.max(need, this.carry.length * 2));
-      grown.set(this.carry.subarray(0, this.carryLength));
-      this.carry = grown;
-    }
-    this.carry.set(bytes, this.carryLength);
-    this.carryLength = need;
-  }
-
   /** Hands complete lines to the body parser; keeps a trailing partial line for the next chunk. */
   private feed(chunk: Uint8Array): void {
-    const n = chunk.length;
-    if (n === 0) return;
-    let last = n - 1;
-    while (last >= 0 && chunk[last] !== 10 && chunk[last] !== 13) last--;
-    if (last < 0) {
-      this.appendCarry(chunk);
-      return;
-    }
-    const body = this.body!;
-    let from = 0;
-    if (this.carryLength > 0) {
-      let first = 0;
-      while (chunk[first] !== 10 && chunk[first] !== 13) first++;
-      this.appendCarry(chunk.subarray(0, first + 1));
-      body.parseRegion(this.carry, 0, this.carryLength);
-      this.carryLength = 0;
-      from = first + 1;
-    }
-    // Slices of at most ~64 KiB, each ending at a line break: the hot loop is then entered often
-    // enough for the JIT to optimise the whole function, not just the loop (on-stack replacement).
-    const end = last + 1;
-    while (from < end) {
-      let cut = from + REGION_BYTES;
-      if (cut >= end) cut = end;
-      else {
-        while (cut > from && chunk[cut - 1] !== 10 && chunk[cut - 1] !== 13) cut--;
-        if (cut === from) cut = end;
-      }
-      body.parseRegion(chunk, from, cut);
-      from = cut;
-    }
-    if (end < n) this.appendCarry(chunk.subarray(end));
+    this.feeder!.feed(chunk);
   }
 
   private result(): ImportResult {

@@ -1,3 +1,4 @@
+import { LineRegionFeeder } from './lineRegionFeeder.js';
 import { LineFindingCollector } from './collectLineFindings.js';
 import { COLUMN_CHANNEL, NumericBodyParser, type BodyEvent, type BodyPlan, type HeldBodyEvents, type TimeStampSink } from './parseNumericBody.js';
 import type { TimebaseTracker } from './trackTimebase.js';
@@ -86,7 +87,6 @@ class TimeStampRecorder implements TimeStampSink {
 }
 
 /** Region size handed to the body parser (as the streaming importer does). */
-const REGION_BYTES = 64 * 1024;
 
 /**
  * Parses a later part of a capture's body, given in chunks that may split lines anywhere; the
@@ -98,8 +98,7 @@ export class BodyPartParser {
   private readonly recorder: TimeStampRecorder | undefined;
   private readonly held: HeldBodyEvents;
   private readonly kinds: Uint8Array;
-  private carry = new Uint8Array(256);
-  private carryLength = 0;
+  private readonly feeder: LineRegionFeeder;
   private finished = false;
 
   constructor(plan: BodyPartPlan) {
@@ -108,50 +107,20 @@ export class BodyPartParser {
     this.held = { limit: plan.perCodeLimit, events: [], counts: {} };
     this.recorder = plan.timeStamps ? new TimeStampRecorder(plan.body.expectedRows) : undefined;
     this.body = new NumericBodyParser(plan.body, new LineFindingCollector(plan.perCodeLimit), this.recorder, this.held);
+    const body = this.body;
+    this.feeder = new LineRegionFeeder((bytes, from, to) => body.parseRegion(bytes, from, to));
   }
 
   push(chunk: Uint8Array): void {
     if (this.finished) throw new RangeError('push() called after finish()');
     if (Object.getPrototypeOf(chunk) !== Uint8Array.prototype) chunk = new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
-    const n = chunk.length;
-    if (n === 0) return;
-    let last = n - 1;
-    while (last >= 0 && chunk[last] !== 10 && chunk[last] !== 13) last--;
-    if (last < 0) {
-      this.appendCarry(chunk);
-      return;
-    }
-    let from = 0;
-    if (this.carryLength > 0) {
-      let first = 0;
-      while (chunk[first] !== 10 && chunk[first] !== 13) first++;
-      this.appendCarry(chunk.subarray(0, first + 1));
-      this.body.parseRegion(this.carry, 0, this.carryLength);
-      this.carryLength = 0;
-      from = first + 1;
-    }
-    const end = last + 1;
-    while (from < end) {
-      let cut = from + REGION_BYTES;
-      if (cut >= end) cut = end;
-      else {
-        while (cut > from && chunk[cut - 1] !== 10 && chunk[cut - 1] !== 13) cut--;
-        if (cut === from) cut = end;
-      }
-      this.body.parseRegion(chunk, from, cut);
-      from = cut;
-    }
-    if (end < n) this.appendCarry(chunk.subarray(end));
+    this.feeder.feed(chunk);
   }
 
   finish(): BodyPart {
     if (this.finished) throw new RangeError('finish() called twice');
     this.finished = true;
-    if (this.carryLength > 0) {
-      this.appendCarry(new Uint8Array([10]));
-      this.body.parseRegion(this.carry, 0, this.carryLength);
-      this.carryLength = 0;
-    }
+    this.feeder.flush();
     const b = this.body;
     const rows = b.rows;
     const columns = b.columns.map((c, k) => (this.kinds[k] === COLUMN_CHANNEL ? c.subarray(0, rows) : undefined));
@@ -168,17 +137,6 @@ export class BodyPartParser {
       counters: { nonNumericCells: b.nonNumericCells, overrangeCells: b.overrangeCells, emptyCells: b.emptyCells, raggedRows: b.raggedRows },
       limited: b.limitLine > 0,
     };
-  }
-
-  private appendCarry(bytes: Uint8Array): void {
-    const need = this.carryLength + bytes.length;
-    if (need > this.carry.length) {
-      const grown = new Uint8Array(Math.max(need, this.carry.length * 2));
-      grown.set(this.carry.subarray(0, this.carryLength));
-      this.carry = grown;
-    }
-    this.carry.set(bytes, this.carryLength);
-    this.carryLength = need;
   }
 }
 
