@@ -288,7 +288,7 @@ export function nullVoltages(input: NullVoltagesInput): NullVoltages {
   if (nulls.length === 0 && skipped.length > 0) {
     const fastest = skipped.reduce((a, b) => (b.sweepDeg > a.sweepDeg ? b : a));
     findings.push(
-      finding('nulls-too-fast', 'info', `${skipped.length} null crossings were passed too fast to measure their null voltage (up to ${fastest.sweepDeg.toFixed(3)}° per cycle, limit ${maxSweep}°).`, {
+      finding('nulls-too-fast', 'info', `${skipped.length === 1 ? '1 null crossing was' : `${skipped.length} null crossings were`} passed too fast to measure their null voltage (up to ${fastest.sweepDeg.toFixed(3)}° per cycle, limit ${maxSweep}°).`, {
         advice: 'Null voltages need a still shaft: park the rotor at electrical zero, or turn it slowly (well under a few degrees per second).',
         roles: [...new Set(skipped.map((s) => s.role))],
         figures: { skipped: skipped.length, maxSweepDeg: maxSweep },
