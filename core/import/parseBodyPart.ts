@@ -185,7 +185,7 @@ export function mergeBodyPart(body: NumericBodyParser, timebase: TimebaseTracker
       const runEnd = Math.min(mark < marks.length ? marks[mark] : stamps, stamps, Math.max(row, line - delta));
       if (runEnd <= row) return;
       const shift = delta + lineShift;
-      for (let r = row; r < runEnd; r++) timebase.add(t![r], e![r], factorS, r + rowShift, r + shift);
+      timebase.addRun(t!, e!, factorS, row, runEnd, rowShift, shift);
       row = runEnd;
     }
   };

@@ -48,10 +48,18 @@ export class TimebaseTracker {
   maxResidualS = 0;
 
   private readonly referenceIntervalS: number;
+  /** 0.3 reference interval: the residual a stamp may have before it is checked closely. */
+  private readonly jitterS: number;
   private readonly findings: LineFindingCollector;
+  // Printed resolution of the last stamp, kept while its exponent and factor repeat.
+  private resolutionExponent = 0x7fff;
+  private resolutionFactorS = 0.5 - 0.5;
+  private resolutionS = 0.5 - 0.5;
+  private halfResolutionS = 0.5 - 0.5;
 
   constructor(referenceIntervalS: number, findings: LineFindingCollector) {
     this.referenceIntervalS = referenceIntervalS;
+    this.jitterS = 0.3 * referenceIntervalS;
     this.findings = findings;
   }
 
@@ -60,16 +68,128 @@ export class TimebaseTracker {
    * of the time column, its sample index and its line.
    */
   add(tS: number, lastDigitExponent: number, factorS: number, row: number, line: number): void {
+    // Fast path: the common stamp, past the anchor window, at the printed resolution of the stamp
+    // before, not earlier than it and near the prediction (no finding, no prediction restart).
+    // It makes exactly the updates of addGeneral, in the same order.
+    const n = this.n;
+    const dt = this.referenceIntervalS;
+    const prediction = this.prediction + dt * (row - this.lastRow);
+    const residual = tS - prediction;
+    if (
+      lastDigitExponent === this.resolutionExponent && factorS === this.resolutionFactorS &&
+      this.upperAnchorRow >= 0 && (n & (n - 1)) !== 0 && dt > 0 &&
+      tS >= this.prev && Math.abs(residual) <= this.jitterS
+    ) {
+      const u = tS - this.first;
+      const halfWidth = this.halfResolutionS + Math.abs(tS) * 4e-16;
+      this.pair(row, u - halfWidth, u + halfWidth);
+      this.n = n + 1;
+      this.sumI += row;
+      this.sumII += row * row;
+      this.sumU += u;
+      this.sumIU += row * u;
+      this.prediction = prediction + residual * 0.0625;
+      this.prev = tS;
+      this.lastRow = row;
+      return;
+    }
+    this.addGeneral(tS, lastDigitExponent, factorS, row, line);
+  }
+
+  /**
+   * The stamps times[from..to) with their exponents, as add(times[r], exponents[r], factorS,
+   * r + rowShift, r + lineShift) for each r in order, with the running state held in locals.
+   */
+  addRun(times: Float64Array, exponents: Int16Array, factorS: number, from: number, to: number, rowShift: number, lineShift: number): void {
+    const dt = this.referenceIntervalS;
+    const jitterS = this.jitterS;
+    let r = from;
+    while (r < to) {
+      // Locals for the fast path of add(); back to the fields for any other stamp.
+      const exponent = this.resolutionExponent;
+      const halfResolutionS = this.halfResolutionS;
+      const first = this.first;
+      const upperRow = this.upperAnchorRow;
+      const upperHi = this.upperAnchorHi;
+      const lowerRow = this.lowerAnchorRow;
+      const lowerLo = this.lowerAnchorLo;
+      const fast = factorS === this.resolutionFactorS && upperRow >= 0 && dt > 0;
+      let n = this.n;
+      let sumI = this.sumI;
+      let sumII = this.sumII;
+      let sumU = this.sumU;
+      let sumIU = this.sumIU;
+      let prediction = this.prediction;
+      let prev = this.prev;
+      let lastRow = this.lastRow;
+      let intervalMin = this.intervalMin;
+      let intervalMax = this.intervalMax;
+      if (fast) {
+        for (; r < to; r++) {
+          const tS = times[r];
+          const row = r + rowShift;
+          const predicted = prediction + dt * (row - lastRow);
+          const residual = tS - predicted;
+          if (!(exponents[r] === exponent && (n & (n - 1)) !== 0 && tS >= prev && Math.abs(residual) <= jitterS)) break;
+          const u = tS - first;
+          const halfWidth = halfResolutionS + Math.abs(tS) * 4e-16;
+          // pair(), inline.
+          const du = row - upperRow;
+          if (du > 0) {
+            const num = u - halfWidth - upperHi;
+            const slope = num / du;
+            intervalMin = num > intervalMin * du ? slope : intervalMin;
+          }
+          const dl = row - lowerRow;
+          if (dl > 0) {
+            const num = u + halfWidth - lowerLo;
+            const slope = num / dl;
+            intervalMax = num < intervalMax * dl ? slope : intervalMax;
+          }
+          n++;
+          sumI += row;
+          sumII += row * row;
+          sumU += u;
+          sumIU += row * u;
+          prediction = predicted + residual * 0.0625;
+          prev = tS;
+          lastRow = row;
+        }
+      }
+      this.n = n;
+      this.sumI = sumI;
+      this.sumII = sumII;
+      this.sumU = sumU;
+      this.sumIU = sumIU;
+      this.prediction = prediction;
+      this.prev = prev;
+      this.lastRow = lastRow;
+      this.intervalMin = intervalMin;
+      this.intervalMax = intervalMax;
+      if (r < to) {
+        this.addGeneral(times[r], exponents[r], factorS, r + rowShift, r + lineShift);
+        r++;
+      }
+    }
+  }
+
+  private addGeneral(tS: number, lastDigitExponent: number, factorS: number, row: number, line: number): void {
     if (tS !== tS) {
       this.missing++;
       return;
+    }
+    if (lastDigitExponent !== this.resolutionExponent || factorS !== this.resolutionFactorS) {
+      this.resolutionExponent = lastDigitExponent;
+      this.resolutionFactorS = factorS;
+      this.resolutionS = powerOfTen(lastDigitExponent) * factorS;
+      this.halfResolutionS = this.resolutionS * 0.5;
     }
     if (this.n === 0) {
       this.first = tS;
       this.prediction = tS;
     }
     const u = tS - this.first;
-    this.bound(row, u, powerOfTen(lastDigitExponent) * factorS * 0.5 + Math.abs(tS) * 4e-16);
+    this.bound(row, u, this.halfResolutionS + Math.abs(tS) * 4e-16);
     this.n++;
     this.sumI += row;
     this.sumII += row * row;
@@ -81,8 +201,8 @@ export class TimebaseTracker {
       this.prediction += dt * (row - this.lastRow);
       const residual = tS - this.prediction;
       const r = Math.abs(residual);
-      if (r > 0.3 * dt || step < 0) {
-        const resolutionS = powerOfTen(lastDigitExponent) * factorS;
+      if (r > this.jitterS || step < 0) {
+        const resolutionS = this.resolutionS;
         const far = 1.5 * dt + resolutionS;
         if (step < 0) {
           const prevT = this.prev;
@@ -108,9 +228,9 @@ export class TimebaseTracker {
             figures: { residualS: residual, intervals: residual / dt, line },
           }));
           if (residual < -far) this.prediction = tS;
-          else this.prediction += residual / 16;
-        } else this.prediction += residual / 16;
-      } else this.prediction += residual / 16;
+          else this.prediction += residual * 0.0625;
+        } else this.prediction += residual * 0.0625;
+      } else this.prediction += residual * 0.0625;
     }
     this.prev = tS;
     this.lastRow = row;
@@ -145,15 +265,19 @@ export class TimebaseTracker {
   }
 
   private pair(row: number, lo: number, hi: number): void {
+    // The quotient is taken whether or not it is kept, so that the division is off the chain
+    // from one row's bound to the next (most rows of a fine-printed record tighten both).
     const du = row - this.upperAnchorRow;
     if (du > 0) {
       const num = lo - this.upperAnchorHi;
-      if (num > this.intervalMin * du) this.intervalMin = num / du;
+      const slope = num / du;
+      if (num > this.intervalMin * du) this.intervalMin = slope;
     }
     const dl = row - this.lowerAnchorRow;
     if (dl > 0) {
       const num = hi - this.lowerAnchorLo;
-      if (num < this.intervalMax * dl) this.intervalMax = num / dl;
+      const slope = num / dl;
+      if (num < this.intervalMax * dl) this.intervalMax = slope;
     }
   }
 
