@@ -1,13 +1,15 @@
 /**
- * npm run bench [-- --max-rows N] [-- --no-anchor] [-- --no-batch]: bundled with esbuild (so the
+ * npm run bench [-- --max-rows N] [-- --repeat N] [-- --no-anchor] [-- --no-batch]: bundled with esbuild (so the
  * timings are the code users run, not a transpile-on-load loader), times each pipeline stage and
  * the CLI end to end on seeded captures of 10^4 to 10^7 rows x 4 channels, runs the pandas +
  * numpy yardstick (tests/bench/pandasAnchor.py under /usr/bin/python3) on the same files in the
- * same run, and a 100-file batch on one worker and on all cores. Prints tables and writes
+ * same run (each tool --repeat times, default 3, alternating; medians reported), the reader on one
+ * thread and a bare byte-level parser (bareParser.ts, the machine's speed today) for MB/s, and a
+ * 100-file batch on one worker and on all cores. Prints tables and writes
  * bench-results/bench.json. Not part of npm test: these are measurements, not checks.
  */
 import { spawnSync } from 'node:child_process';
-import { copyFileSync, existsSync, mkdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { availableParallelism, cpus, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
@@ -18,6 +20,7 @@ import { trackCarrier } from '../../core/carrier/trackCarrier.js';
 import { demodulateCycles } from '../../core/demod/demodulateCycles.js';
 import { clippedFraction } from '../../core/diagnostics/clippedFraction.js';
 import { analyzeCapture } from '../../core/pipeline.js';
+import { bareParse } from './bareParser.js';
 import { benchCapturePath, benchFolder } from './benchCapture.js';
 
 const PYTHON = '/usr/bin/python3';
@@ -35,6 +38,10 @@ interface Row {
   fileMB: number;
   importS: number;
   importMBps: number;
+  /** The same reader held to one thread (no parse worker), median of the repeats. */
+  oneCoreImportMBps: number;
+  /** bareParser.ts on the file's bytes already in memory: what this machine does at best today. */
+  bareParserMBps: number;
   carrierS: number;
   demodS: number;
   demodSamplesPerS: number;
@@ -46,6 +53,10 @@ interface Row {
   anchorWallS: number | null;
   anchorPeakRssMB: number | null;
   anchorImportS: number | null;
+  /** Runs of each tool (alternating CLI, pandas, CLI, ...); the wall and RSS figures are medians. */
+  repeats: number;
+  cliWallsS: number[];
+  anchorWallsS: number[] | null;
   wallRatio: number | null;
   memoryRatio: number | null;
 }
@@ -64,7 +75,32 @@ function anchorAvailable(): boolean {
   return spawnSync(PYTHON, ['-c', 'import pandas, numpy'], { encoding: 'utf8' }).status === 0;
 }
 
-async function measure(rows: number, withAnchor: boolean): Promise<Row> {
+function median(values: number[]): number {
+  const v = [...values].sort((a, b) => a - b);
+  const m = v.length >> 1;
+  return v.length % 2 ? v[m]! : (v[m - 1]! + v[m]!) / 2;
+}
+
+/** Median MB/s of `repeats` one-thread reads of the file and of the bare parser on its bytes. */
+async function measureParsers(path: string, rows: number, fileMB: number, repeats: number): Promise<{ oneCore: number; bare: number }> {
+  const oneCore: number[] = [];
+  const bare: number[] = [];
+  const bytes = readFileSync(path);
+  const columns = Array.from({ length: 5 }, () => new Float32Array(rows));
+  for (let i = 0; i < repeats; i++) {
+    let t = performance.now();
+    const { capture } = await readCaptureFile(path, {}, { minBytes: Infinity });
+    oneCore.push(fileMB / ((performance.now() - t) / 1000));
+    if (capture.sampleCount !== rows) throw new Error(`one-thread read gave ${capture.sampleCount} rows, expected ${rows}`);
+    t = performance.now();
+    const bareRows = bareParse(bytes, columns);
+    bare.push(fileMB / ((performance.now() - t) / 1000));
+    if (bareRows !== rows) throw new Error(`bare parser read ${bareRows} rows, expected ${rows}`);
+  }
+  return { oneCore: median(oneCore), bare: median(bare) };
+}
+
+async function measure(rows: number, withAnchor: boolean, repeats: number): Promise<Row> {
   const path = await benchCapturePath(rows);
   const fileMB = statSync(path).size / 1e6;
   const jsonOut = join(benchFolder(), `out-${rows}.json`);
@@ -101,19 +137,26 @@ async function measure(rows: number, withAnchor: boolean): Promise<Row> {
   analyzeCapture(capture);
   const analyzeS = (performance.now() - t) / 1000;
 
-  const cli = timed(process.execPath, [CLI, 'analyze', path, '--json', jsonOut]);
-  rmSync(jsonOut, { force: true });
-  let anchor: Run | undefined;
-  let anchorImportS: number | null = null;
-  if (withAnchor) {
-    anchor = timed(PYTHON, [ANCHOR, path]);
-    anchorImportS = (JSON.parse(anchor.stdout) as { importS: number }).importS;
+  const parsers = await measureParsers(path, rows, fileMB, repeats);
+
+  // The two tools alternate, so a change in the machine's load hits both alike.
+  const cliRuns: Run[] = [];
+  const anchorRuns: Run[] = [];
+  for (let i = 0; i < repeats; i++) {
+    cliRuns.push(timed(process.execPath, [CLI, 'analyze', path, '--json', jsonOut]));
+    rmSync(jsonOut, { force: true });
+    if (withAnchor) anchorRuns.push(timed(PYTHON, [ANCHOR, path]));
   }
+  const cli = { wallS: median(cliRuns.map((r) => r.wallS)), peakRssMB: median(cliRuns.map((r) => r.peakRssMB)) };
+  const anchor = withAnchor ? { wallS: median(anchorRuns.map((r) => r.wallS)), peakRssMB: median(anchorRuns.map((r) => r.peakRssMB)) } : undefined;
+  const anchorImportS = withAnchor ? median(anchorRuns.map((r) => (JSON.parse(r.stdout) as { importS: number }).importS)) : null;
   return {
     rows,
     fileMB,
     importS,
     importMBps: fileMB / importS,
+    oneCoreImportMBps: parsers.oneCore,
+    bareParserMBps: parsers.bare,
     carrierS,
     demodS,
     demodSamplesPerS: (rows * capture.channels.length) / demodS,
@@ -125,6 +168,9 @@ async function measure(rows: number, withAnchor: boolean): Promise<Row> {
     anchorWallS: anchor?.wallS ?? null,
     anchorPeakRssMB: anchor?.peakRssMB ?? null,
     anchorImportS,
+    repeats,
+    cliWallsS: cliRuns.map((r) => r.wallS),
+    anchorWallsS: withAnchor ? anchorRuns.map((r) => r.wallS) : null,
     wallRatio: anchor ? cli.wallS / anchor.wallS : null,
     memoryRatio: anchor ? cli.peakRssMB / anchor.peakRssMB : null,
   };
@@ -166,6 +212,8 @@ function arg(name: string): string | undefined {
 
 async function main(): Promise<void> {
   const maxRows = Number(arg('--max-rows') ?? 10_000_000);
+  const repeats = Number(arg('--repeat') ?? 3);
+  if (!(Number.isInteger(repeats) && repeats >= 1)) throw new Error(`--repeat must be a whole number of runs (1 or more), not ${arg('--repeat')}`);
   const withAnchor = !process.argv.includes('--no-anchor') && anchorAvailable();
   if (!process.argv.includes('--no-anchor') && !withAnchor) {
     process.stderr.write(`bench: ${PYTHON} cannot import pandas and numpy (apt-get install -y python3-pandas python3-numpy); running without the yardstick\n`);
@@ -174,7 +222,7 @@ async function main(): Promise<void> {
   if (build.status !== 0) throw new Error('build failed');
   const results: Row[] = [];
   for (const rows of [10_000, 100_000, 1_000_000, 10_000_000].filter((r) => r <= maxRows)) {
-    results.push(await measure(rows, withAnchor));
+    results.push(await measure(rows, withAnchor, repeats));
     printTable(results);
   }
   const batch = process.argv.includes('--no-batch') ? [] : await measureBatch();
@@ -187,13 +235,15 @@ async function main(): Promise<void> {
 function printTable(results: Row[]): void {
   const f = (v: number | null, d: number, w: number): string => (v === null ? '-' : v.toFixed(d)).padStart(w);
   const header =
-    'rows       file MB  import s  MB/s  carrier s  demod s  Msamp/s  angle s  diag s  analyze s | CLI wall s  RSS MB | pandas wall s  RSS MB  (import s) | wall ratio  RSS ratio';
+    'rows       file MB  import s  MB/s  1-core MB/s  bare MB/s  carrier s  demod s  Msamp/s  angle s  diag s  analyze s | CLI wall s  RSS MB | pandas wall s  RSS MB  (import s) | wall ratio  RSS ratio';
   const lines = results.map((r) =>
     [
       String(r.rows).padEnd(9),
       f(r.fileMB, 1, 8),
       f(r.importS, 3, 9),
       f(r.importMBps, 0, 5),
+      f(r.oneCoreImportMBps, 0, 12),
+      f(r.bareParserMBps, 0, 10),
       f(r.carrierS, 3, 10),
       f(r.demodS, 3, 8),
       f(r.demodSamplesPerS / 1e6, 0, 8),
