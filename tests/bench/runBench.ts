@@ -20,7 +20,7 @@ import { trackCarrier } from '../../core/carrier/trackCarrier.js';
 import { demodulateCycles } from '../../core/demod/demodulateCycles.js';
 import { clippedFraction } from '../../core/diagnostics/clippedFraction.js';
 import { analyzeCapture } from '../../core/pipeline.js';
-import { bareParse } from './bareParser.js';
+import { bareColumnCount, bareParse } from './bareParser.js';
 import { benchCapturePath, benchFolder } from './benchCapture.js';
 
 const PYTHON = '/usr/bin/python3';
@@ -86,7 +86,7 @@ async function measureParsers(path: string, rows: number, fileMB: number, repeat
   const oneCore: number[] = [];
   const bare: number[] = [];
   const bytes = readFileSync(path);
-  const columns = Array.from({ length: 5 }, () => new Float32Array(rows));
+  const columns = Array.from({ length: bareColumnCount(bytes) }, () => new Float32Array(rows));
   for (let i = 0; i < repeats; i++) {
     let t = performance.now();
     const { capture } = await readCaptureFile(path, {}, { minBytes: Infinity });
