@@ -74,6 +74,10 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
     for (;;) {
       const { bytesRead, buffer } = await pending;
       if (bytesRead === 0) break;
+      which ^= 1;
+      // The next read goes into the other buffer while this one is parsed (once the split is
+      // decided: the first chunk may move the end of the range read here).
+      if (decided) pending = next(buffers[which]!);
       parser.push(buffer.subarray(0, bytesRead));
       if (!decided) {
         // Decided once, right after the first chunk: the layout is known from it or not at all.
@@ -90,9 +94,8 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
           }
           part.catch(() => undefined); // awaited below; never an unhandled rejection meanwhile
         }
+        pending = next(buffers[which]!);
       }
-      which ^= 1;
-      pending = next(buffers[which]!);
     }
     if (part === undefined) {
       split.onSplit?.('single');
@@ -110,10 +113,10 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
       for (;;) {
         const { bytesRead, buffer } = await pending;
         if (bytesRead === 0) break;
-        // Push before the next read is issued into the other buffer, never into this one.
-        parser.push(buffer.subarray(0, bytesRead));
+        // The next read goes into the other buffer, never into the one parsed here.
         which ^= 1;
         pending = next(buffers[which]!);
+        parser.push(buffer.subarray(0, bytesRead));
       }
       return parser.finish();
     }

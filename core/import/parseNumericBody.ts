@@ -1,4 +1,4 @@
-import { composeDecimal, POW10 } from './composeDecimal.js';
+import { composeDecimal } from './composeDecimal.js';
 import { decodeUtf8 } from './decodeUtf8.js';
 import { OVERRANGE_MAGNITUDE, parseNumberText, unquoteCell } from './parseNumberText.js';
 import type { LineFindingCollector } from './collectLineFindings.js';
@@ -342,9 +342,10 @@ export class NumericBodyParser {
   }
 
   /**
-   * Fast path for the common row: exactly columnCount plain numbers (sign, at most 9 integer
-   * digits, at most 18 fraction digits, optional e-exponent), no blanks, no quotes, values within
-   * range. Digits accumulate in int32 segments of at most 9 digits (exact), joined once per cell.
+   * Fast path for the common row: exactly columnCount plain numbers (sign, at most 19 digits,
+   * optional e-exponent), no blanks, no quotes, values within range. Digits accumulate in one
+   * double, as in the general path; a cell whose mantissa reaches 2^53 leaves the fast path, so
+   * every partial sum here is an exact integer and both paths give the same value.
    * Parses such rows from p on and returns where it stopped: at the first row it cannot read
    * (left untouched for the general state machine in parseRegion, so both paths give the same
    * samples and findings), at the end of the region or when the columns are full.
@@ -376,37 +377,24 @@ export class NumericBodyParser {
           b = buf[++q];
         } else if (b === 43) b = buf[++q];
         const intStart = q;
-        let ip = 0;
+        let mantissa = 0;
         while (b >= 48 && b <= 57) {
-          ip = (ip * 10 + (b - 48)) | 0;
+          mantissa = mantissa * 10 + (b - 48);
           b = buf[++q];
         }
-        const ni = q - intStart;
-        if (ni > 9) break;
+        let nd = q - intStart;
         let nf = 0;
-        let mantissa = ip;
         if (b === dec) {
           b = buf[++q];
           const fracStart = q;
-          const firstEnd = q + 9;
-          let f1 = 0;
-          while (b >= 48 && b <= 57 && q < firstEnd) {
-            f1 = (f1 * 10 + (b - 48)) | 0;
-            b = buf[++q];
-          }
-          const n1 = q - fracStart;
-          let f2 = 0;
-          const secondStart = q;
           while (b >= 48 && b <= 57) {
-            f2 = (f2 * 10 + (b - 48)) | 0;
+            mantissa = mantissa * 10 + (b - 48);
             b = buf[++q];
           }
-          const n2 = q - secondStart;
-          if (n2 > 9 || ni + n1 + n2 > 19) break;
-          nf = n1 + n2;
-          mantissa = n2 === 0 ? ip * POW10[n1] + f1 : (ip * POW10[n1] + f1) * POW10[n2] + f2;
+          nf = q - fracStart;
+          nd += nf;
         }
-        if (ni + nf === 0) break;
+        if (nd === 0 || nd > 19 || !(mantissa < 9007199254740992)) break;
         let e10 = -nf;
         if ((b | 32) === 101) {
           b = buf[++q];
