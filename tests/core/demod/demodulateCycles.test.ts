@@ -45,6 +45,24 @@ describe('demodulateCycles(channels, track, n)', () => {
     });
   }
 
+  it('gives each channel the phasors it gets alone, bit for bit, with 1 to 5 channels (channels go through in pairs)', () => {
+    // Oracle: the same function on one channel at a time (the single-channel loop).
+    const fs = 50_000;
+    const n = 4000;
+    const track = constantCarrierTrack(fs, 401.3, 0.7, n);
+    const random = createRandom(20261202);
+    const channels = [0, 1, 2, 3, 4].map((k) => Float32Array.from({ length: n }, (_, i) => (k + 1) * Math.sin(2 * Math.PI * 401.3 * (i / fs) + 0.7 + k) + 0.01 * random.normal()));
+    const alone = channels.map((c) => demodulateCycles([c], track, n));
+    for (let count = 1; count <= 5; count++) {
+      const together = demodulateCycles(channels.slice(0, count), track, n);
+      for (let ch = 0; ch < count; ch++) {
+        expect(together.inPhase[ch]).toEqual(alone[ch]!.inPhase[0]);
+        expect(together.quadrature[ch]).toEqual(alone[ch]!.quadrature[0]);
+        expect(together.dc[ch]).toEqual(alone[ch]!.dc[0]);
+      }
+    }
+  });
+
   it('windows tile the record, each one carrier period long to within one sample', () => {
     const fs = 97_300;
     const track = constantCarrierTrack(fs, 400, 0.7, 97_300);
