@@ -17,7 +17,7 @@ export const SPLIT_MIN_BYTES = 32 * 1024 * 1024;
  * 10^7-row capture), so it takes a little less than half. Measured, no source; on a shared
  * two-core machine 0.36-0.5 could not be told apart from run-to-run noise.
  */
-const HEAD_SHARE = 0.45;
+const HEAD_SHARE = 0.5;
 
 /** How far past the chosen offset a line start is looked for. */
 const SPLIT_WINDOW_BYTES = 64 * 1024;

@@ -7,8 +7,14 @@ import { readUnitToken, splitLabelUnit, type UnitToken } from './readUnitToken.j
 import { splitDelimitedRecords, type TextRecord } from './splitDelimitedRecords.js';
 import { looksLikeTime, referenceInterval } from './inspectTimeColumn.js';
 
-/** How much of the head of the file the layout is decided from. */
+/** How much of the head of the file the layout is decided from: at most this many bytes... */
 export const SNIFF_BYTES = 64 * 1024;
+/**
+ * ...and at most this many lines (preamble, header and data), enough for the cell statistics
+ * of any export seen (preambles run to a few dozen lines) while the sniffer, which runs before
+ * the code is optimised, stays a few milliseconds per file. Common practice, no source.
+ */
+export const SNIFF_LINES = 320;
 
 export type Delimiter = ',' | ';' | '\t' | ' ';
 export type DecimalMark = '.' | ',';
@@ -156,6 +162,14 @@ export function sniffCaptureLayout(bytes: Uint8Array, start: number, final: bool
   let windowEnd = Math.min(bytes.length, start + SNIFF_BYTES);
   if (windowEnd < bytes.length || !final) {
     let cut = windowEnd;
+    let lines = 0;
+    for (let i = start; i < windowEnd; i++) {
+      const b = bytes[i];
+      if ((b === 10 || (b === 13 && bytes[i + 1] !== 10)) && ++lines === SNIFF_LINES) {
+        cut = i + 1;
+        break;
+      }
+    }
     while (cut > start && bytes[cut - 1] !== 10 && bytes[cut - 1] !== 13) cut--;
     if (cut === start) {
       throw new CaptureError(

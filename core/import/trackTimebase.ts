@@ -22,6 +22,8 @@ import { powerOfTen } from './composeDecimal.js';
  */
 /** Rows kept at the start of the record to choose the two anchors of the interval bounds. */
 const ANCHOR_WINDOW = 2048;
+/** Rows addRun takes through its fast loop before writing its state back (see addRun). */
+const RUN_BLOCK_ROWS = 4096;
 
 export class TimebaseTracker {
   private n = 0;
@@ -105,7 +107,11 @@ export class TimebaseTracker {
     const jitterS = this.jitterS;
     let r = from;
     while (r < to) {
-      // Locals for the fast path of add(); back to the fields for any other stamp.
+      // Locals for the fast path of add(); back to the fields for any other stamp and after each
+      // block of rows: leaving the loop often gives the optimising compiler feedback for the
+      // whole function early (one run over millions of rows was compiled on stack with none for
+      // the code after the loop, deoptimised there and ran ~4x slower in its first call).
+      const blockEnd = Math.min(to, r + RUN_BLOCK_ROWS);
       const exponent = this.resolutionExponent;
       const halfResolutionS = this.halfResolutionS;
       const first = this.first;
@@ -125,7 +131,7 @@ export class TimebaseTracker {
       let intervalMin = this.intervalMin;
       let intervalMax = this.intervalMax;
       if (fast) {
-        for (; r < to; r++) {
+        for (; r < blockEnd; r++) {
           const tS = times[r];
           const row = r + rowShift;
           const predicted = prediction + dt * (row - lastRow);
@@ -166,7 +172,7 @@ export class TimebaseTracker {
       this.lastRow = lastRow;
       this.intervalMin = intervalMin;
       this.intervalMax = intervalMax;
-      if (r < to) {
+      if (r < blockEnd) {
         this.addGeneral(times[r], exponents[r], factorS, r + rowShift, r + lineShift);
         r++;
       }
