@@ -69,7 +69,7 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
   const slot = (channel: number): number => used.indexOf(channel);
   const samplesPerCycle = capture.sampleRateHz / carrier.frequencyHz;
   const refPeakV = hasRef ? carrier.referenceRmsV * Math.SQRT2 : NaN;
-  const clipped = capture.channels.map((c) => clippedFraction(c.samples, capture.sampleCount, samplesPerCycle));
+  const clipped = capture.channels.map((c) => clippedFraction(c.samples, capture.sampleCount, samplesPerCycle, c.extremes));
 
   // Stator units first (a CT's error is read against its transmitter's phase lead).
   const ctx = { capture, phasors, slot, carrier, refPeakV, options };

@@ -101,6 +101,8 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
       split.onSplit?.('single');
       return parser.finish();
     }
+    // The head's share of the merge while the worker may still be parsing.
+    parser.prepareForPart();
     let rest: BodyPart;
     try {
       rest = await part;

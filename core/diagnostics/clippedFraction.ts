@@ -1,37 +1,20 @@
+import { measureSampleExtremes, type SampleExtremes } from './sampleExtremes.js';
+
 /**
  * Fraction of samples that sit on a flat top at the channel's extreme values: runs of equal
  * samples at the minimum or maximum at least max(4, P/20) long, where P is samples per carrier
  * period. An unclipped sine sampled at P points per period and quantised at 8 bits stays on its
  * top code for only a few samples, so shorter runs are not counted (common practice, no source).
  */
-export function clippedFraction(samples: Float32Array, sampleCount: number, samplesPerPeriod: number): number {
+export function clippedFraction(samples: Float32Array, sampleCount: number, samplesPerPeriod: number, extremes?: SampleExtremes): number {
   if (sampleCount === 0) return 0;
-  // Pass 1: the extremes and how many samples sit on each. Pass 2 (runs on the extremes) is only
-  // needed when enough samples sit there to form a flat top, which a clean capture never has.
-  let lo = Infinity;
-  let hi = -Infinity;
-  let nLo = 0;
-  let nHi = 0;
-  for (let i = 0; i < sampleCount; i++) {
-    const v = samples[i]!;
-    if (v <= lo) {
-      if (v < lo) {
-        lo = v;
-        nLo = 0;
-      }
-      nLo++;
-    }
-    if (v >= hi) {
-      if (v > hi) {
-        hi = v;
-        nHi = 0;
-      }
-      nHi++;
-    }
-  }
+  // Pass 1: the extremes and how many samples sit on each (given by the importer when it measured
+  // them). Pass 2 (runs on the extremes) is only needed when enough samples sit there to form a
+  // flat top, which a clean capture never has.
+  const { lo, hi, countLo, countHi } = extremes !== undefined && extremes.sampleCount === sampleCount ? extremes : measureSampleExtremes(samples, 0, sampleCount);
   if (!(hi > lo)) return 0;
   const minRun = Math.max(4, Math.round(samplesPerPeriod / 20));
-  if (nLo < minRun && nHi < minRun) return 0;
+  if (countLo < minRun && countHi < minRun) return 0;
   let clipped = 0;
   for (let i = 0; i < sampleCount; i++) {
     const v = samples[i]!;

@@ -3,6 +3,7 @@ import type { Capture, CaptureChannel } from '../model/capture.js';
 import { CaptureError } from '../model/errors.js';
 import { finding, type Finding } from '../model/findings.js';
 import { LineFindingCollector } from './collectLineFindings.js';
+import { measureSampleExtremes, mergeSampleExtremes, type SampleExtremes } from '../diagnostics/sampleExtremes.js';
 import { mergeBodyPart, type BodyPart, type BodyPartPlan } from './parseBodyPart.js';
 import { COLUMN_CHANNEL, COLUMN_IGNORED, COLUMN_TIME, NumericBodyParser, type BodyPlan } from './parseNumericBody.js';
 import { SNIFF_BYTES, sniffCaptureLayout, type SniffedLayout } from './sniffCaptureLayout.js';
@@ -77,6 +78,11 @@ export interface SplittableCaptureParser extends CaptureParser {
    * Throws CaptureError for an unusable file, as finish() does.
    */
   finishWithPart(part: BodyPart): ImportResult | undefined;
+  /**
+   * Optional, once the whole head is pushed: does the head's share of the finishing work now
+   * (the extremes of its rows), for a thread that would otherwise wait for the part.
+   */
+  prepareForPart(): void;
 }
 
 /** createCaptureParser, with the split-body methods. */
@@ -143,6 +149,8 @@ class StreamingCaptureParser implements SplittableCaptureParser {
   private bom = false;
   private feeder: LineRegionFeeder | undefined;
   private finished = false;
+  /** Extremes of the head rows, measured by prepareForPart() while the part is still being parsed. */
+  private headExtremes: { rows: number; extremes: (SampleExtremes | undefined)[] } | undefined;
   private bodyPlan: BodyPlan | undefined;
   private dataBytes = 0;
   private lastPushedByte = -1;
@@ -199,13 +207,22 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     };
   }
 
+  prepareForPart(): void {
+    if (this.finished || this.body === undefined) return;
+    const body = this.body;
+    this.headExtremes = { rows: body.rows, extremes: body.columns.map((c) => (c.length > 0 ? measureSampleExtremes(c, 0, body.rows) : undefined)) };
+  }
+
   finishWithPart(part: BodyPart): ImportResult | undefined {
     if (this.finished) throw new RangeError('finishWithPart() called after finish()');
     if (this.bodyPartPlan(0) === undefined) throw new RangeError('finishWithPart() needs a parser that gave a body part plan');
     if (this.lastPushedByte !== 10 || this.feeder!.pendingBytes > 0) throw new RangeError('finishWithPart() needs the bytes pushed to end with a line feed');
     this.finished = true;
-    const merged = mergeBodyPart(this.body!, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples);
-    return merged ? this.result() : undefined;
+    const body = this.body!;
+    const head = this.headExtremes?.rows === body.rows ? this.headExtremes.extremes : body.columns.map((c) => (c.length > 0 ? measureSampleExtremes(c, 0, body.rows) : undefined));
+    const merged = mergeBodyPart(body, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples);
+    if (!merged) return undefined;
+    return this.result(head.map((h, k) => (h === undefined || part.extremes[k] === undefined ? undefined : mergeSampleExtremes(h, part.extremes[k]!))));
   }
 
   private sniff(final: boolean): void {
@@ -307,7 +324,8 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     this.feeder!.feed(chunk);
   }
 
-  private result(): ImportResult {
+  /** The import's result; `extremes` per file column when they were measured in shares. */
+  private result(extremes?: (SampleExtremes | undefined)[]): ImportResult {
     const s = this.sniffed!;
     const body = this.body!;
     const rows = body.rows;
@@ -382,7 +400,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
       const column = body.columns[k];
       // A view when little is unused (a presized column), a copy otherwise (frees the rest).
       const samples = column.length === rows ? column : rows >= 0.85 * column.length ? column.subarray(0, rows) : column.slice(0, rows);
-      return { column: k, label: c.label, unit: c.unit, samples };
+      return { column: k, label: c.label, unit: c.unit, samples, extremes: extremes?.[k] ?? measureSampleExtremes(samples, 0, rows) };
     });
     const capture: Capture = { sampleRateHz, startS, sampleCount: rows, channels };
     const layout: CaptureLayout = {

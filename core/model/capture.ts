@@ -1,3 +1,5 @@
+import type { SampleExtremes } from '../diagnostics/sampleExtremes.js';
+
 /**
  * The in-memory form of one oscilloscope capture, after import.
  *
@@ -13,6 +15,11 @@ export interface CaptureChannel {
   readonly unit: string;
   /** Samples in the unit above (values given in mV are scaled to V on import). */
   readonly samples: Float32Array;
+  /**
+   * Lowest and highest sample and their counts, when the importer measured them (it does so on
+   * each thread's share of a large file); used only while its sampleCount matches the capture's.
+   */
+  readonly extremes?: SampleExtremes;
 }
 
 export interface Capture {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { clippedFraction } from '../../../core/diagnostics/clippedFraction.js';
+import { measureSampleExtremes, mergeSampleExtremes } from '../../../core/diagnostics/sampleExtremes.js';
 import { createRandom } from '../../../core/synth/random.js';
 
 /** Direct two-pass oracle: find the extremes, then count long runs sitting on them. */
@@ -35,7 +36,17 @@ describe('clippedFraction(samples, n, samplesPerPeriod)', () => {
       }
       const minRun = Math.max(4, Math.round(period / 20));
       expect(clippedFraction(x, n, period)).toBe(oracle(x, minRun));
+      // With the extremes measured in two shares and merged (as the importer gives them).
+      const cut = Math.floor(rnd.uniform() * n);
+      const extremes = mergeSampleExtremes(measureSampleExtremes(x, 0, cut), measureSampleExtremes(x, cut, n));
+      expect(clippedFraction(x, n, period, extremes)).toBe(oracle(x, minRun));
     }
+  });
+
+  it('measures the extremes itself when the given ones are for another length', () => {
+    const x = Float32Array.from([1, 1, 1, 1, 1, 0, -0.5, 0.2, 1, 1, 1, 1]);
+    const stale = measureSampleExtremes(x, 0, 6);
+    expect(clippedFraction(x, x.length, 20, stale)).toBeCloseTo(9 / 12, 12);
   });
 
   it('counts a flat top at the very start and at the very end', () => {
