@@ -12,12 +12,19 @@ const CHUNK_BYTES = 1 << 20;
 export const SPLIT_MIN_BYTES = 32 * 1024 * 1024;
 
 /**
- * Share of the file's bytes this thread parses: besides its part it replays the worker's time
- * stamps through the time-base fit and copies the worker's rows in (about 0.2 s of 1 s on a
- * 10^7-row capture), so it takes a little less than half. Measured, no source; on a shared
- * two-core machine 0.36-0.5 could not be told apart from run-to-run noise.
+ * Share of the file's bytes this thread parses: besides its part it measures its rows' extremes
+ * and merges the worker's slices (time stamps through the time-base fit, rows copied in, about
+ * 0.15 s on a 10^7-row capture), while the worker starts late (about 0.05 s) and parses a little
+ * slower. Measured on a shared two-core machine, no source: 0.4-0.5 within run-to-run noise.
  */
 const HEAD_SHARE = 0.5;
+
+/**
+ * Bytes of the worker's range per slice it answers with: this thread merges each slice (time
+ * stamps through the time-base fit, rows copied in) while the worker parses the next, so only
+ * the last slice's merge waits for the worker to end. Measured, no source.
+ */
+const SLICE_BYTES = 16 * 1024 * 1024;
 
 /** How far past the chosen offset a line start is looked for. */
 const SPLIT_WINDOW_BYTES = 64 * 1024;
@@ -30,6 +37,8 @@ export interface SplitOptions {
    * chunk read), regardless of size and thread: for tests. Default: HEAD_SHARE of the file.
    */
   readonly splitAt?: number;
+  /** Bytes per slice of the worker's answer (default SLICE_BYTES): for tests. */
+  readonly sliceBytes?: number;
   /** The bundled worker (default: parseWorker.js next to the running script). */
   readonly workerScript?: string;
   /** Called with what happened, for tests and benches. */
@@ -44,11 +53,12 @@ export interface SplitOptions {
  *
  * A large file (SPLIT_MIN_BYTES) read on the main thread with two or more cores is parsed in two
  * halves: the layout is sniffed from the head as usual, a worker thread parses from the line
- * start after the first HEAD_SHARE of the bytes to the end (core BodyPartParser) while this thread parses the first
- * half, and the halves are merged (finishWithPart) into the result a single pass gives. When the
- * split cannot be made (layout not known from the first chunk, not UTF-8, CR line ends, no line
- * start near the split point) it is not attempted; when the worker fails this thread parses the second
- * half itself; when the merge is refused (the row limit) the file is read again in one pass.
+ * start after the first HEAD_SHARE of the bytes to the end (core BodyPartParser) while this
+ * thread parses the first half, and the worker's slices are merged (appendPart) as they come
+ * into the result a single pass gives. When the split cannot be made (layout not known from the
+ * first chunk, not UTF-8, CR line ends, no line start near the split point) it is not attempted;
+ * when the worker fails before any slice was merged this thread parses the second half itself,
+ * after that (or when the merge is refused: the row limit) the file is read again in one pass.
  */
 export async function readCaptureFile(path: string, options: ImportOptions = {}, split: SplitOptions = {}): Promise<ImportResult> {
   const handle = await open(path, 'r');
@@ -60,7 +70,7 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
     const parser = createSplittableCaptureParser({ sizeHintBytes: size, ...options });
     let limit = size;
     let position = 0;
-    let part: Promise<BodyPart> | undefined;
+    let parts: PartStream | undefined;
     const buffers = [new Uint8Array(CHUNK_BYTES), new Uint8Array(CHUNK_BYTES)];
     let which = 0;
     const next = (b: Uint8Array): Promise<{ bytesRead: number; buffer: Uint8Array }> => {
@@ -88,27 +98,38 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
           limit = at;
           try {
             worker = new Worker(split.workerScript ?? join(__dirname, 'parseWorker.js'));
-            part = runPart(worker, { path, start: at, end: size, plan });
+            parts = streamParts(worker, { path, start: at, end: size, plan, sliceBytes: split.sliceBytes ?? SLICE_BYTES });
           } catch (error) {
-            part = Promise.reject(error instanceof Error ? error : new Error(String(error)));
+            const failure = error instanceof Error ? error : new Error(String(error));
+            parts = { next: () => Promise.reject(failure) };
           }
-          part.catch(() => undefined); // awaited below; never an unhandled rejection meanwhile
         }
         pending = next(buffers[which]!);
       }
     }
-    if (part === undefined) {
+    if (parts === undefined) {
       split.onSplit?.('single');
       return parser.finish();
     }
-    // The head's share of the merge while the worker may still be parsing.
+    // The head's share of the merge while the worker may still be parsing; then its slices are
+    // merged as they come.
     parser.prepareForPart();
-    let rest: BodyPart;
+    let appended = 0;
+    let refused = false;
     try {
-      rest = await part;
+      for (;;) {
+        const { part, last } = await parts.next();
+        if (!parser.appendPart(part)) {
+          refused = true;
+          break;
+        }
+        appended++;
+        if (last) break;
+      }
     } catch {
-      // The worker failed: parse the second half here.
       split.onSplit?.('worker-failed');
+      if (appended > 0) return readCaptureFile(path, options, { ...split, splitAt: undefined, minBytes: Infinity, onSplit: undefined });
+      // Nothing of the worker's merged: parse the second half here.
       limit = size;
       which = 0;
       pending = next(buffers[0]!);
@@ -122,10 +143,9 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
       }
       return parser.finish();
     }
-    const merged = parser.finishWithPart(rest);
-    if (merged !== undefined) {
+    if (!refused) {
       split.onSplit?.('split');
-      return merged;
+      return parser.finishAppended();
     }
     split.onSplit?.('merge-refused');
     return readCaptureFile(path, options, { ...split, splitAt: undefined, minBytes: Infinity, onSplit: undefined });
@@ -154,13 +174,47 @@ async function splitOffset(handle: FileHandle, size: number, readSoFar: number, 
   return undefined;
 }
 
-function runPart(worker: Worker, job: ParseJob): Promise<BodyPart> {
-  return new Promise<BodyPart>((resolve, reject) => {
-    worker.once('message', (reply: ParseReply) => (reply.ok ? resolve(reply.part) : reject(new Error(reply.message))));
-    worker.once('error', reject);
-    worker.once('exit', (code) => reject(new Error(`the parse worker stopped (exit code ${code})`)));
-    worker.postMessage(job satisfies ParseJob);
+/** The worker's answers in order: each next() gives the next slice, or throws once it failed. */
+interface PartStream {
+  next(): Promise<{ part: BodyPart; last: boolean }>;
+}
+
+function streamParts(worker: Worker, job: ParseJob): PartStream {
+  const ready: { part: BodyPart; last: boolean }[] = [];
+  let failure: Error | undefined;
+  let finished = false;
+  let wake: (() => void) | undefined;
+  const notify = (): void => {
+    const w = wake;
+    wake = undefined;
+    w?.();
+  };
+  worker.on('message', (reply: ParseReply) => {
+    if (reply.ok) {
+      ready.push({ part: reply.part, last: reply.last });
+      if (reply.last) finished = true;
+    } else failure ??= new Error(reply.message);
+    notify();
   });
+  worker.once('error', (error: Error) => {
+    failure ??= error;
+    notify();
+  });
+  worker.once('exit', (code) => {
+    if (!finished) failure ??= new Error(`the parse worker stopped (exit code ${code})`);
+    notify();
+  });
+  worker.postMessage(job satisfies ParseJob);
+  return {
+    async next() {
+      for (;;) {
+        const first = ready.shift();
+        if (first !== undefined) return first;
+        if (failure !== undefined) throw failure;
+        await new Promise<void>((resolve) => (wake = resolve));
+      }
+    },
+  };
 }
 
 export type { BodyPartPlan };

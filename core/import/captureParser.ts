@@ -79,6 +79,14 @@ export interface SplittableCaptureParser extends CaptureParser {
    */
   finishWithPart(part: BodyPart): ImportResult | undefined;
   /**
+   * Merges one part (a slice of the bytes after the head: parts follow one another in file
+   * order) after the rows so far; false (the parser is then spent) when the rows together pass
+   * the row limit. After the first part the head takes no more bytes.
+   */
+  appendPart(part: BodyPart): boolean;
+  /** Ends the input after the parts appended; the result is the one a single pass gives. */
+  finishAppended(): ImportResult;
+  /**
    * Optional, once the whole head is pushed: does the head's share of the finishing work now
    * (the extremes of its rows), for a thread that would otherwise wait for the part.
    */
@@ -149,8 +157,13 @@ class StreamingCaptureParser implements SplittableCaptureParser {
   private bom = false;
   private feeder: LineRegionFeeder | undefined;
   private finished = false;
-  /** Extremes of the head rows, measured by prepareForPart() while the part is still being parsed. */
-  private headExtremes: { rows: number; extremes: (SampleExtremes | undefined)[] } | undefined;
+  /**
+   * Extremes of each channel column over the rows so far, kept from prepareForPart() and merged
+   * with each appended part's.
+   */
+  private shares: { rows: number; extremes: (SampleExtremes | undefined)[] } | undefined;
+  /** Set by the first appendPart(): no more bytes of the head may be pushed. */
+  private appending = false;
   private bodyPlan: BodyPlan | undefined;
   private dataBytes = 0;
   private lastPushedByte = -1;
@@ -164,6 +177,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
   push(chunk: Uint8Array): void {
     if (!(chunk instanceof Uint8Array)) throw new TypeError('push() takes a Uint8Array');
     if (this.finished) throw new RangeError('push() called after finish()');
+    if (this.appending) throw new RangeError('push() called after appendPart()');
     if (this.error !== undefined || chunk.length === 0) return;
     this.lastPushedByte = chunk[chunk.length - 1];
     // One element type for the hot loops: a Uint8Array subclass (e.g. Node's Buffer) has another
@@ -208,21 +222,45 @@ class StreamingCaptureParser implements SplittableCaptureParser {
   }
 
   prepareForPart(): void {
-    if (this.finished || this.body === undefined) return;
+    if (this.finished || this.body === undefined || this.shares !== undefined) return;
+    this.shares = this.measureHead();
+  }
+
+  appendPart(part: BodyPart): boolean {
+    if (this.finished) throw new RangeError('appendPart() called after the parser finished');
     const body = this.body;
-    this.headExtremes = { rows: body.rows, extremes: body.columns.map((c) => (c.length > 0 ? measureSampleExtremes(c, 0, body.rows) : undefined)) };
+    if (!this.appending) {
+      if (this.bodyPartPlan(0) === undefined) throw new RangeError('appendPart() needs a parser that gave a body part plan');
+      if (this.lastPushedByte !== 10 || this.feeder!.pendingBytes > 0) throw new RangeError('appendPart() needs the bytes pushed to end with a line feed');
+      if (this.shares?.rows !== body!.rows) this.shares = this.measureHead();
+      this.appending = true;
+    }
+    if (!mergeBodyPart(body!, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples)) {
+      this.finished = true;
+      return false;
+    }
+    const shares = this.shares!;
+    this.shares = {
+      rows: body!.rows,
+      extremes: shares.extremes.map((h, k) => (h === undefined || part.extremes[k] === undefined ? undefined : mergeSampleExtremes(h, part.extremes[k]!))),
+    };
+    return true;
+  }
+
+  finishAppended(): ImportResult {
+    if (this.finished || !this.appending) throw new RangeError('finishAppended() needs appendPart() to have merged a part');
+    this.finished = true;
+    return this.result(this.shares!.extremes);
   }
 
   finishWithPart(part: BodyPart): ImportResult | undefined {
-    if (this.finished) throw new RangeError('finishWithPart() called after finish()');
-    if (this.bodyPartPlan(0) === undefined) throw new RangeError('finishWithPart() needs a parser that gave a body part plan');
-    if (this.lastPushedByte !== 10 || this.feeder!.pendingBytes > 0) throw new RangeError('finishWithPart() needs the bytes pushed to end with a line feed');
-    this.finished = true;
+    return this.appendPart(part) ? this.finishAppended() : undefined;
+  }
+
+  /** Extremes of each channel column over the rows read so far. */
+  private measureHead(): { rows: number; extremes: (SampleExtremes | undefined)[] } {
     const body = this.body!;
-    const head = this.headExtremes?.rows === body.rows ? this.headExtremes.extremes : body.columns.map((c) => (c.length > 0 ? measureSampleExtremes(c, 0, body.rows) : undefined));
-    const merged = mergeBodyPart(body, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples);
-    if (!merged) return undefined;
-    return this.result(head.map((h, k) => (h === undefined || part.extremes[k] === undefined ? undefined : mergeSampleExtremes(h, part.extremes[k]!))));
+    return { rows: body.rows, extremes: body.columns.map((c) => (c.length > 0 ? measureSampleExtremes(c, 0, body.rows) : undefined)) };
   }
 
   private sniff(final: boolean): void {

@@ -89,29 +89,46 @@ class TimeStampRecorder implements TimeStampSink {
   }
 }
 
-/** Region size handed to the body parser (as the streaming importer does). */
-
 /**
  * Parses a later part of a capture's body, given in chunks that may split lines anywhere; the
  * part must begin at the start of a line. Same state machine as the single pass
  * (NumericBodyParser), with the reports held (BodyEvent) and the time stamps recorded.
+ *
+ * The rows parsed so far can be taken as a part of their own (takeSlice) while parsing goes on
+ * from the next line: merged one after the other, the slices give what one part would, so a
+ * thread can merge the first slices while the rest is still being parsed.
  */
 export class BodyPartParser {
-  private readonly body: NumericBodyParser;
-  private readonly recorder: TimeStampRecorder | undefined;
-  private readonly held: HeldBodyEvents;
+  private readonly plan: BodyPartPlan;
+  /** Rows to size each slice's columns for after the first (the plan's estimate for the first). */
+  private readonly sliceRows: number;
+  private body!: NumericBodyParser;
+  private recorder: TimeStampRecorder | undefined;
+  private held!: HeldBodyEvents;
   private readonly kinds: Uint8Array;
   private readonly feeder: LineRegionFeeder;
   private finished = false;
 
-  constructor(plan: BodyPartPlan) {
+  /** `sliceRows`: expected rows per slice when the part is taken in slices (see takeSlice). */
+  constructor(plan: BodyPartPlan, sliceRows?: number) {
     if (plan.body.firstLine !== 1) throw new RangeError('a body part counts its lines from 1');
+    this.plan = plan;
     this.kinds = plan.body.kinds;
+    this.sliceRows = sliceRows ?? plan.body.expectedRows;
+    this.restart(sliceRows ?? plan.body.expectedRows);
+    this.feeder = new LineRegionFeeder((bytes, from, to) => this.body.parseRegion(bytes, from, to));
+  }
+
+  private restart(expectedRows: number): void {
+    const plan = this.plan;
     this.held = { limit: plan.perCodeLimit, events: [], counts: {} };
-    this.recorder = plan.timeStamps ? new TimeStampRecorder(plan.body.expectedRows) : undefined;
-    this.body = new NumericBodyParser(plan.body, new LineFindingCollector(plan.perCodeLimit), this.recorder, this.held);
-    const body = this.body;
-    this.feeder = new LineRegionFeeder((bytes, from, to) => body.parseRegion(bytes, from, to));
+    this.recorder = plan.timeStamps ? new TimeStampRecorder(expectedRows) : undefined;
+    this.body = new NumericBodyParser({ ...plan.body, expectedRows }, new LineFindingCollector(plan.perCodeLimit), this.recorder, this.held);
+  }
+
+  /** Rows parsed since the last slice. */
+  get rows(): number {
+    return this.body.rows;
   }
 
   push(chunk: Uint8Array): void {
@@ -120,10 +137,29 @@ export class BodyPartParser {
     this.feeder.feed(chunk);
   }
 
+  /**
+   * The rows parsed since the last slice, as a part; parsing goes on from the next line (a line
+   * not yet complete belongs to the next slice). Undefined when no row is waiting, when the last
+   * bytes were a CR whose LF may follow, or once the row limit is passed (finish() then reports it).
+   */
+  takeSlice(): BodyPart | undefined {
+    if (this.finished) throw new RangeError('takeSlice() called after finish()');
+    const b = this.body;
+    if (b.rows === 0 || b.awaitingLf || b.limitLine > 0) return undefined;
+    const part = this.snapshot();
+    this.restart(this.sliceRows);
+    return part;
+  }
+
+  /** The rows since the last slice (all rows when no slice was taken), as a part. */
   finish(): BodyPart {
     if (this.finished) throw new RangeError('finish() called twice');
     this.finished = true;
     this.feeder.flush();
+    return this.snapshot();
+  }
+
+  private snapshot(): BodyPart {
     const b = this.body;
     const rows = b.rows;
     const columns = b.columns.map((c, k) => (this.kinds[k] === COLUMN_CHANNEL ? c.subarray(0, rows) : undefined));

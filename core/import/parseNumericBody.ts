@@ -119,6 +119,11 @@ export class NumericBodyParser {
     return true;
   }
 
+  /** True when the last region ended with a CR whose LF may begin the next one. */
+  get awaitingLf(): boolean {
+    return this.pendingCR;
+  }
+
   /** Parses buf[start, end); buf[end - 1] must be LF or CR. */
   parseRegion(buf: Uint8Array, start: number, end: number): void {
     let p = start;

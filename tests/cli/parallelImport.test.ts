@@ -87,8 +87,35 @@ describe('readCaptureFile on two threads', () => {
         expect(how).toEqual(['split']);
         expectSame(result, single.result);
       }
+      // The worker's answer in slices (one per 1 MiB chunk read), merged as they come.
+      const sliced = await readSplit(path, { splitAt: 1000, sliceBytes: 1 });
+      expect(sliced.how).toEqual(['split']);
+      expectSame(sliced.result, single.result);
     }, 60_000);
   }
+
+  it('merges the answer of the worker in slices as they come, and reads again in one pass when the worker stops after some', async () => {
+    // About 7 MB: seven 1 MiB chunks for the worker, a slice after each; bad cells across them.
+    const path = writeCapture('sliced.csv', CSV_LAYOUTS.plain, 200000, 13, (lines) => {
+      for (let j = 1; j < 10; j++) lines[20000 * j] = lines[20000 * j].replace(/,[^,]*$/, ',err');
+    });
+    const single = await readSplit(path, { minBytes: Infinity });
+    const sliced = await readSplit(path, { splitAt: 1000, sliceBytes: 1 });
+    expect(sliced.how).toEqual(['split']);
+    expectSame(sliced.result, single.result);
+    // A worker that stops after its third answer (so at least two slices came before the end).
+    const quitting = join(dir, 'quittingWorker.js');
+    writeFileSync(quitting, [
+      "const { parentPort } = require('node:worker_threads');",
+      'const post = parentPort.postMessage.bind(parentPort);',
+      'let answers = 0;',
+      'parentPort.postMessage = (message, transfer) => { post(message, transfer); if (++answers === 3) process.exit(3); };',
+      `require(${JSON.stringify(WORKER)});`,
+    ].join('\n'));
+    const quit = await readSplit(path, { splitAt: 1000, sliceBytes: 1, workerScript: quitting });
+    expect(quit.how).toEqual(['worker-failed']);
+    expectSame(quit.result, single.result);
+  }, 60_000);
 
   it('falls back to one thread: small file, unusable split point, failing worker, row limit', async () => {
     const path = writeCapture('fallback.csv', CSV_LAYOUTS.plain, 30000, 12, defects);

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createSplittableCaptureParser, parseCaptureBytes, type ImportResult } from '../../../core/import/captureParser.js';
-import { BodyPartParser } from '../../../core/import/parseBodyPart.js';
+import { BodyPartParser, type BodyPart } from '../../../core/import/parseBodyPart.js';
 import { CSV_LAYOUTS, formatCaptureCsv, type CsvChannelSpec, type CsvLayoutSpec } from '../../../core/synth/formatCaptureCsv.js';
 import { createRandom } from '../../../core/synth/random.js';
 
@@ -105,16 +105,28 @@ function lineStarts(bytes: Uint8Array): number[] {
   return out;
 }
 
-/** Parses bytes[0, at) as the head and bytes[at, end) as a part, in chunks of `chunk` bytes. */
-function parseSplit(bytes: Uint8Array, at: number, chunk: number): ImportResult | undefined {
+/**
+ * Parses bytes[0, at) as the head and bytes[at, end) as a part, in chunks of `chunk` bytes; with
+ * `sliced`, the part is taken as a slice after every chunk and the slices merged one by one.
+ */
+function parseSplit(bytes: Uint8Array, at: number, chunk: number, sliced = false): ImportResult | undefined {
   const head = createSplittableCaptureParser({ sizeHintBytes: bytes.length });
   for (let p = 0; p < at; p += chunk) head.push(bytes.subarray(p, Math.min(p + chunk, at)));
   const plan = head.bodyPartPlan(bytes.length - at);
   if (plan === undefined) return undefined;
   // Through a structured clone, as it reaches a worker thread.
-  const part = new BodyPartParser(structuredClone(plan));
-  for (let p = at; p < bytes.length; p += chunk) part.push(bytes.subarray(p, Math.min(p + chunk, bytes.length)));
-  return head.finishWithPart(structuredClone(part.finish()));
+  const part = new BodyPartParser(structuredClone(plan), sliced ? 64 : undefined);
+  const slices: BodyPart[] = [];
+  for (let p = at; p < bytes.length; p += chunk) {
+    part.push(bytes.subarray(p, Math.min(p + chunk, bytes.length)));
+    const slice = sliced ? part.takeSlice() : undefined;
+    if (slice !== undefined) slices.push(structuredClone(slice));
+  }
+  slices.push(structuredClone(part.finish()));
+  if (!sliced) return head.finishWithPart(slices[0]!);
+  expect(slices.length).toBeGreaterThan(bytes.length - at > 40 * chunk ? 10 : 0);
+  for (const slice of slices) if (!head.appendPart(slice)) return undefined;
+  return head.finishAppended();
 }
 
 /** Index of the first sample whose bits differ, -1 when none does. */
@@ -135,6 +147,7 @@ function expectSame(got: ImportResult, want: ImportResult): void {
   got.capture.channels.forEach((c, k) => {
     const w = want.capture.channels[k].samples;
     expect(firstBitDifference(c.samples, w)).toBe(-1);
+    expect(c.extremes).toEqual(want.capture.channels[k].extremes);
   });
   // Sums over the two parts are added in another order: 1e-12 relative (common practice, no source).
   expect(Math.abs(got.capture.sampleRateHz / want.capture.sampleRateHz - 1)).toBeLessThan(1e-12);
@@ -160,6 +173,10 @@ describe('a body parsed in two parts and merged gives the single-pass result', (
           const merged = parseSplit(bytes, at, 4096 + (at % 5000));
           expect(merged, `split at byte ${at}`).toBeDefined();
           expectSame(merged!, single);
+          // The part in slices of one chunk each (CRLF pairs and defects fall across slices).
+          const inSlices = parseSplit(bytes, at, 3001 + (at % 2000), true);
+          expect(inSlices, `split at byte ${at}, in slices`).toBeDefined();
+          expectSame(inSlices!, single);
         }
       });
     }
