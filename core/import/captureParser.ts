@@ -438,7 +438,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
       const column = body.columns[k];
       // A view when little is unused (a presized column), a copy otherwise (frees the rest).
       const samples = column.length === rows ? column : rows >= 0.85 * column.length ? column.subarray(0, rows) : column.slice(0, rows);
-      return { column: k, label: c.label, unit: c.unit, samples, extremes: extremes?.[k] ?? measureSampleExtremes(samples, 0, rows) };
+      return { column: k, label: c.label, unit: c.unit, samples, extremes: extremes?.[k] };
     });
     const capture: Capture = { sampleRateHz, startS, sampleCount: rows, channels };
     const layout: CaptureLayout = {

@@ -17,7 +17,8 @@ export interface CaptureChannel {
   readonly samples: Float32Array;
   /**
    * Lowest and highest sample and their counts, when the importer measured them (it does so on
-   * each thread's share of a large file); used only while its sampleCount matches the capture's.
+   * each thread's share of a file parsed on two threads, where it saves the analysis a pass);
+   * used only while its sampleCount matches the capture's.
    */
   readonly extremes?: SampleExtremes;
 }

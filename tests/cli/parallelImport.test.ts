@@ -48,9 +48,9 @@ function expectSame(got: ImportResult, want: ImportResult): void {
     let diff = x.length === y.length ? -1 : 0;
     for (let i = 0; i < x.length && diff < 0; i++) if (x[i] !== y[i]) diff = i;
     expect(diff).toBe(-1);
-    // The extremes merged from the two shares are those of the whole column.
-    expect(c.extremes).toEqual(measureSampleExtremes(c.samples, 0, c.samples.length));
-    expect(c.extremes).toEqual(want.capture.channels[k].extremes);
+    // The extremes merged from the two shares are those of the whole column (a single pass
+    // leaves them to the analysis).
+    if (c.extremes !== undefined) expect(c.extremes).toEqual(measureSampleExtremes(c.samples, 0, c.samples.length));
   });
   // 1e-12 relative: the parts' sums are added in another order (common practice, no source).
   expect(Math.abs(got.capture.sampleRateHz / want.capture.sampleRateHz - 1)).toBeLessThan(1e-12);
@@ -86,6 +86,7 @@ describe('readCaptureFile on two threads', () => {
         const { result, how } = await readSplit(path, { splitAt: Math.floor(size * fraction) });
         expect(how).toEqual(['split']);
         expectSame(result, single.result);
+        expect(result.capture.channels.every((c) => c.extremes !== undefined)).toBe(true);
       }
       // The worker's answer in slices (one per 1 MiB chunk read), merged as they come.
       const sliced = await readSplit(path, { splitAt: 1000, sliceBytes: 1 });
