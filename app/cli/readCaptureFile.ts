@@ -68,6 +68,18 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
     const forced = split.splitAt !== undefined;
     const wanted = forced || (size >= (split.minBytes ?? SPLIT_MIN_BYTES) && isMainThread && availableParallelism() >= 2);
     const parser = createSplittableCaptureParser({ sizeHintBytes: size, ...options });
+    // The worker starts now, so that its start-up overlaps the first read and the sniffing; its
+    // answers are listened for from the start (an early failure is kept for next()).
+    let stream: PartStream | undefined;
+    if (wanted) {
+      try {
+        worker = new Worker(split.workerScript ?? join(__dirname, 'parseWorker.js'));
+        stream = streamParts(worker);
+      } catch (error) {
+        const failure = error instanceof Error ? error : new Error(String(error));
+        stream = { start: () => undefined, next: () => Promise.reject(failure) };
+      }
+    }
     let limit = size;
     let position = 0;
     let parts: PartStream | undefined;
@@ -96,13 +108,8 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
         const plan = at === undefined ? undefined : parser.bodyPartPlan(size - at);
         if (at !== undefined && plan !== undefined) {
           limit = at;
-          try {
-            worker = new Worker(split.workerScript ?? join(__dirname, 'parseWorker.js'));
-            parts = streamParts(worker, { path, start: at, end: size, plan, sliceBytes: split.sliceBytes ?? SLICE_BYTES });
-          } catch (error) {
-            const failure = error instanceof Error ? error : new Error(String(error));
-            parts = { next: () => Promise.reject(failure) };
-          }
+          parts = stream!;
+          parts.start({ path, start: at, end: size, plan, sliceBytes: split.sliceBytes ?? SLICE_BYTES });
         }
         pending = next(buffers[which]!);
       }
@@ -176,10 +183,12 @@ async function splitOffset(handle: FileHandle, size: number, readSoFar: number, 
 
 /** The worker's answers in order: each next() gives the next slice, or throws once it failed. */
 interface PartStream {
+  /** Sends the worker its job. */
+  start(job: ParseJob): void;
   next(): Promise<{ part: BodyPart; last: boolean }>;
 }
 
-function streamParts(worker: Worker, job: ParseJob): PartStream {
+function streamParts(worker: Worker): PartStream {
   const ready: { part: BodyPart; last: boolean }[] = [];
   let failure: Error | undefined;
   let finished = false;
@@ -204,8 +213,10 @@ function streamParts(worker: Worker, job: ParseJob): PartStream {
     if (!finished) failure ??= new Error(`the parse worker stopped (exit code ${code})`);
     notify();
   });
-  worker.postMessage(job satisfies ParseJob);
   return {
+    start(job) {
+      worker.postMessage(job satisfies ParseJob);
+    },
     async next() {
       for (;;) {
         const first = ready.shift();
