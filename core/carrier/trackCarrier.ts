@@ -53,7 +53,7 @@ export function trackCarrier(
   sourceRoles: readonly string[],
 ): CarrierEstimate {
   const findings: Finding[] = [];
-  const strongest = strongestChannel(sources, sampleCount);
+  const strongest = sources.length === 1 ? 0 : strongestChannel(sources, sampleCount);
   // The FFT start needs only to land inside the sine fit's basin: a 2^16-sample segment does, as
   // long as it holds enough carrier cycles for Grandke's interpolation (else a longer one).
   const band = { minHz: 20, maxHz: sampleRateHz * 0.45 };
