@@ -18,11 +18,11 @@ export type { RoleOptions, RoleAssignment, UnitKind } from './roles/assignRoles.
 export { trackCarrier } from './carrier/trackCarrier.js';
 export type { CarrierEstimate } from './carrier/trackCarrier.js';
 export type { CarrierTrack } from './carrier/carrierTrack.js';
-export { demodulateCycles } from './demod/demodulateCycles.js';
-export type { CyclePhasors } from './demod/demodulateCycles.js';
+export { cycleBoundaries, demodulateCycleRange, demodulateCycles, joinCyclePhasors } from './demod/demodulateCycles.js';
+export type { CycleDemodulator, CyclePhasors } from './demod/demodulateCycles.js';
 export { sinCosFromLines } from './angle/sinCosFromLines.js';
 export { solveAngle } from './angle/solveAngle.js';
-export { analyzeCapture } from './pipeline.js';
+export { analyzeCapture, type AnalysisEngine } from './pipeline.js';
 export type { AnalyzeOptions } from './pipeline.js';
 
 export { analysisToJson, ANALYSIS_SCHEMA } from './report/analysisJson.js';

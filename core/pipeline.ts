@@ -2,7 +2,7 @@ import { analyzeAccuracy } from './analyzeAccuracy.js';
 import { analyzeUnit, type UnitAnalysis, type UnitGroup } from './analyzeUnit.js';
 import { trackCarrier } from './carrier/trackCarrier.js';
 import { combineUnits } from './combineUnits.js';
-import { demodulateCycles } from './demod/demodulateCycles.js';
+import { demodulateCycles, type CycleDemodulator } from './demod/demodulateCycles.js';
 import { checkCaptureQuality } from './diagnostics/captureQuality.js';
 import { clippedFraction } from './diagnostics/clippedFraction.js';
 import { checkShaftFacts } from './diagnostics/shaftFacts.js';
@@ -25,7 +25,14 @@ const STATOR_BASES = new Set(['s1s3', 's3s2', 's2s1', 's3s1', 's2s3', 's1s2', 's
  * (two-speed, tracking) → accuracy run → shaft facts → capture quality. Bad data becomes
  * findings; a capture that cannot be analysed throws one CaptureError.
  */
-export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): Analysis {
+/** How the pipeline runs its heaviest kernels (the default: on this thread). */
+export interface AnalysisEngine {
+  /** Per-cycle demodulation (the carrier track's pass and every channel's). */
+  readonly demodulate?: CycleDemodulator;
+}
+
+export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, engine: AnalysisEngine = {}): Analysis {
+  const demodulate = engine.demodulate ?? demodulateCycles;
   const assignment = assignRoles(capture, options);
   const findings: Finding[] = [...assignment.findings];
   const roles = assignment.roles;
@@ -52,6 +59,7 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
     capture.sampleRateHz,
     capture.sampleCount,
     sourceRoles,
+    demodulate,
   );
   findings.push(...carrier.findings);
   if (!hasRef) {
@@ -65,7 +73,7 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}): 
   }
 
   const used = roles.map((r, i) => (r && r.base !== 'ignore' ? i : -1)).filter((i) => i >= 0);
-  const phasors = demodulateCycles(used.map((i) => capture.channels[i]!.samples), carrier.track, capture.sampleCount);
+  const phasors = demodulate(used.map((i) => capture.channels[i]!.samples), carrier.track, capture.sampleCount);
   const slot = (channel: number): number => used.indexOf(channel);
   const samplesPerCycle = capture.sampleRateHz / carrier.frequencyHz;
   const refPeakV = hasRef ? carrier.referenceRmsV * Math.SQRT2 : NaN;

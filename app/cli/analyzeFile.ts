@@ -1,8 +1,11 @@
+import { availableParallelism } from 'node:os';
 import { basename } from 'node:path';
+import { isMainThread } from 'node:worker_threads';
 import { analysisToJson, analyzeCapture, CaptureError, type Analysis, type AnalyzeOptions, type Finding } from '../../core/index.js';
 import { captureMemoryLimitBytes, checkCaptureFits, estimateCaptureSize } from './captureMemory.js';
 import type { AnalyzeCommand } from './parseCliArgs.js';
-import { readCaptureFile } from './readCaptureFile.js';
+import { ParallelDemodulator, sharedSamples } from './parallelDemodulator.js';
+import { readCaptureFile, SPLIT_MIN_BYTES } from './readCaptureFile.js';
 
 /** A capture that cannot be analysed, already phrased with its file and location: exit code 1. */
 export class FileCaptureError extends Error {}
@@ -24,13 +27,22 @@ export async function analyzeFile(path: string, displayName: string, options: An
   const estimate = await estimateCaptureSize(path);
   const fits = checkCaptureFits(displayName, estimate, captureMemoryLimitBytes(workers));
   if (!fits.ok) throw new FileCaptureError(fits.message);
+  // A large capture read on the main thread with a second core: its samples go to shared memory
+  // and the demodulation is split over two threads (the worker starts while the file is read).
+  const helper = estimate.fileBytes >= SPLIT_MIN_BYTES && isMainThread && availableParallelism() >= 2 ? new ParallelDemodulator() : undefined;
   try {
-    const imported = await readCaptureFile(path, { maxSamples: fits.maxSamples, sizeHintBytes: estimate.fileBytes });
-    const analysis = analyzeCapture(imported.capture, options);
+    const imported = await readCaptureFile(path, {
+      maxSamples: fits.maxSamples,
+      sizeHintBytes: estimate.fileBytes,
+      ...(helper ? { allocateSamples: sharedSamples } : {}),
+    });
+    const analysis = analyzeCapture(imported.capture, options, helper ? { demodulate: helper.demodulate } : {});
     return { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
   } catch (error) {
     if (error instanceof CaptureError) throw new FileCaptureError(error.describeIn(displayName));
     throw error;
+  } finally {
+    if (helper) void helper.close();
   }
 }
 

@@ -1,6 +1,6 @@
 import { estimateToneFrequency } from '../dsp/estimateToneFrequency.js';
 import { fitSine4 } from '../dsp/sineFit.js';
-import { demodulateCycles } from '../demod/demodulateCycles.js';
+import { demodulateCycles, type CycleDemodulator } from '../demod/demodulateCycles.js';
 import { CaptureError } from '../model/errors.js';
 import { finding, type Finding } from '../model/findings.js';
 import { carrierFrequencyHzAt, carrierPhaseAt, constantCarrierTrack, type CarrierTrack } from './carrierTrack.js';
@@ -51,6 +51,7 @@ export function trackCarrier(
   sampleRateHz: number,
   sampleCount: number,
   sourceRoles: readonly string[],
+  demodulate: CycleDemodulator = demodulateCycles,
 ): CarrierEstimate {
   const findings: Finding[] = [];
   const strongest = sources.length === 1 ? 0 : strongestChannel(sources, sampleCount);
@@ -87,7 +88,7 @@ export function trackCarrier(
   }
 
   const linear = constantCarrierTrack(sampleRateHz, firstHz, 0, sampleCount);
-  const cycles = demodulateCycles(sources, linear, sampleCount);
+  const cycles = demodulate(sources, linear, sampleCount);
   if (cycles.cycleCount < MIN_CYCLES) {
     throw new CaptureError(`the record holds fewer than ${MIN_CYCLES} whole carrier cycles; capture a longer record`);
   }

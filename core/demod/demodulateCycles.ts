@@ -57,12 +57,27 @@ export function cycleBoundaries(track: CarrierTrack, sampleCount: number): Float
   return Float64Array.from(out);
 }
 
+/** Signature of demodulateCycles, for a caller that supplies its own (e.g. spread over threads). */
+export type CycleDemodulator = (channels: readonly ArrayLike<number>[], track: CarrierTrack, sampleCount: number) => CyclePhasors;
+
 export function demodulateCycles(
   channels: readonly ArrayLike<number>[],
   track: CarrierTrack,
   sampleCount: number,
 ): CyclePhasors {
-  const bounds = cycleBoundaries(track, sampleCount);
+  return demodulateCycleRange(channels, track, cycleBoundaries(track, sampleCount));
+}
+
+/**
+ * The phasors of the cycles between consecutive `bounds` (a run of cycleBoundaries, any part of
+ * it): each cycle depends only on its own samples, so ranges demodulated apart (one per thread)
+ * and joined (joinCyclePhasors) equal demodulateCycles bit for bit.
+ */
+export function demodulateCycleRange(
+  channels: readonly ArrayLike<number>[],
+  track: CarrierTrack,
+  bounds: Float64Array,
+): CyclePhasors {
   const cycles = Math.max(0, bounds.length - 1);
   const centreS = new Float64Array(cycles);
   const firstSample = new Float64Array(cycles);
@@ -160,4 +175,32 @@ export function demodulateCycles(
     centrePhaseRad[m] = phase < 0 ? phase + 2 * Math.PI : phase;
   }
   return { cycleCount: cycles, centreS, firstSample, lengthSamples, radPerSample, centrePhaseRad, inPhase, quadrature, dc };
+}
+
+/** Phasors of consecutive cycle ranges (same channels, in order) joined into one. */
+export function joinCyclePhasors(parts: readonly CyclePhasors[]): CyclePhasors {
+  const cycleCount = parts.reduce((n, p) => n + p.cycleCount, 0);
+  const join = (pick: (p: CyclePhasors) => Float64Array): Float64Array => {
+    const out = new Float64Array(cycleCount);
+    let at = 0;
+    for (const p of parts) {
+      out.set(pick(p).subarray(0, p.cycleCount), at);
+      at += p.cycleCount;
+    }
+    return out;
+  };
+  const channels = parts.length ? parts[0]!.inPhase.length : 0;
+  const perChannel = (pick: (p: CyclePhasors) => readonly Float64Array[]): Float64Array[] =>
+    Array.from({ length: channels }, (_, ch) => join((p) => pick(p)[ch]!));
+  return {
+    cycleCount,
+    centreS: join((p) => p.centreS),
+    firstSample: join((p) => p.firstSample),
+    lengthSamples: join((p) => p.lengthSamples),
+    radPerSample: join((p) => p.radPerSample),
+    centrePhaseRad: join((p) => p.centrePhaseRad),
+    inPhase: perChannel((p) => p.inPhase),
+    quadrature: perChannel((p) => p.quadrature),
+    dc: perChannel((p) => p.dc),
+  };
 }

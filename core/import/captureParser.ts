@@ -25,6 +25,11 @@ export interface ImportOptions {
    * arrive (which costs copies and up to twice the memory). Only a hint: any size is read right.
    */
   sizeHintBytes?: number;
+  /**
+   * Allocates the sample columns (zero-filled, `length` samples): e.g. over a SharedArrayBuffer,
+   * so that other threads can read the capture without a copy. Default: new Float32Array(length).
+   */
+  allocateSamples?: (length: number) => Float32Array;
 }
 
 export interface CaptureLayout {
@@ -136,6 +141,7 @@ function checkOptions(o: ImportOptions): void {
   if (o.maxSamples !== undefined && !(Number.isInteger(o.maxSamples) && o.maxSamples >= 1)) {
     throw new RangeError(`options.maxSamples must be a positive integer, not ${o.maxSamples}`);
   }
+  if (o.allocateSamples !== undefined && typeof o.allocateSamples !== 'function') throw new TypeError('options.allocateSamples must be a function');
   if (o.sizeHintBytes !== undefined && !(Number.isFinite(o.sizeHintBytes) && o.sizeHintBytes >= 0)) {
     throw new RangeError(`options.sizeHintBytes must be a non-negative finite number, not ${o.sizeHintBytes}`);
   }
@@ -257,6 +263,15 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     return this.appendPart(part) ? this.finishAppended() : undefined;
   }
 
+  /** The first `rows` samples of a column, in a column of their own. */
+  private copyOf(column: Float32Array, rows: number): Float32Array {
+    const allocate = this.options.allocateSamples;
+    if (allocate === undefined) return column.slice(0, rows);
+    const copy = allocate(rows);
+    copy.set(column.subarray(0, rows));
+    return copy;
+  }
+
   /** Extremes of each channel column over the rows read so far. */
   private measureHead(): { rows: number; extremes: (SampleExtremes | undefined)[] } {
     const body = this.body!;
@@ -325,7 +340,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     this.bodyPlan = plan;
     this.dataBytes = this.options.sizeHintBytes !== undefined ? Math.max(0, this.options.sizeHintBytes - s.dataOffset) : 0;
     if (s.timeColumn !== null) this.timebase = new TimebaseTracker(s.referenceIntervalS, this.findings);
-    const body = new NumericBodyParser(plan, this.findings, this.timebase);
+    const body = new NumericBodyParser(plan, this.findings, this.timebase, undefined, this.options.allocateSamples);
     this.body = body;
     this.feeder = new LineRegionFeeder((bytes, from, to) => body.parseRegion(bytes, from, to));
     this.feed(buf.subarray(s.dataOffset));
@@ -437,7 +452,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     const channels: CaptureChannel[] = channelColumns.map(({ c, k }) => {
       const column = body.columns[k];
       // A view when little is unused (a presized column), a copy otherwise (frees the rest).
-      const samples = column.length === rows ? column : rows >= 0.85 * column.length ? column.subarray(0, rows) : column.slice(0, rows);
+      const samples = column.length === rows ? column : rows >= 0.85 * column.length ? column.subarray(0, rows) : this.copyOf(column, rows);
       return { column: k, label: c.label, unit: c.unit, samples, extremes: extremes?.[k] };
     });
     const capture: Capture = { sampleRateHz, startS, sampleCount: rows, channels };

@@ -90,9 +90,15 @@ export class NumericBodyParser {
   private readonly timebase: TimeStampSink | undefined;
   private readonly held: HeldBodyEvents | undefined;
 
-  /** With `held`, per-line reports are kept there (see BodyEvent) instead of going to `findings`. */
-  constructor(plan: BodyPlan, findings: LineFindingCollector, timebase: TimeStampSink | undefined, held?: HeldBodyEvents) {
+  private readonly allocate: (length: number) => Float32Array;
+
+  /**
+   * With `held`, per-line reports are kept there (see BodyEvent) instead of going to `findings`;
+   * `allocate` makes the sample columns (default: new Float32Array).
+   */
+  constructor(plan: BodyPlan, findings: LineFindingCollector, timebase: TimeStampSink | undefined, held?: HeldBodyEvents, allocate?: (length: number) => Float32Array) {
     this.plan = plan;
+    this.allocate = allocate ?? ((length) => new Float32Array(length));
     this.findings = findings;
     this.timebase = timebase;
     this.held = held;
@@ -100,7 +106,7 @@ export class NumericBodyParser {
     this.capacity = initial;
     this.columns = [];
     for (let k = 0; k < plan.columnCount; k++) {
-      this.columns.push(plan.kinds[k] === COLUMN_CHANNEL ? new Float32Array(initial) : EMPTY_F32);
+      this.columns.push(plan.kinds[k] === COLUMN_CHANNEL ? this.allocate(initial) : EMPTY_F32);
     }
     this.line = plan.firstLine;
   }
@@ -111,7 +117,7 @@ export class NumericBodyParser {
     for (let k = 0; k < this.columns.length; k++) {
       const old = this.columns[k];
       if (old.length === 0) continue;
-      const grown = new Float32Array(next);
+      const grown = this.allocate(next);
       grown.set(old);
       this.columns[k] = grown;
     }
@@ -512,7 +518,7 @@ export class NumericBodyParser {
       for (let k = 0; k < this.columns.length; k++) {
         const old = this.columns[k];
         if (old.length === 0) continue;
-        const grown = new Float32Array(need);
+        const grown = this.allocate(need);
         grown.set(old.subarray(0, this.rows));
         this.columns[k] = grown;
       }

@@ -1,0 +1,82 @@
+/**
+ * Spreads the per-cycle demodulation of a large capture over two threads: this thread
+ * demodulates the first half of the carrier cycles, a worker (demodWorker.ts) the second half
+ * at the same time, reading the samples from shared memory (the importer's allocateSamples, see
+ * sharedSamples). Each cycle depends only on its own samples, so the joined result is the one
+ * demodulateCycles gives, bit for bit. The analysis pipeline is synchronous: this thread waits
+ * for the worker on a shared flag (Atomics.wait) rather than on a message.
+ *
+ * Used only when the worker has reported ready, every channel lies in shared memory and the
+ * record holds enough cycles; otherwise, or when the worker fails, all of it is done here.
+ */
+import { join } from 'node:path';
+import { Worker } from 'node:worker_threads';
+import { cycleBoundaries, demodulateCycleRange, joinCyclePhasors, type CycleDemodulator, type CyclePhasors } from '../../core/demod/demodulateCycles.js';
+import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
+import { DEMOD_DONE, DEMOD_PENDING, readPhasors, type DemodJob } from './demodWorker.js';
+
+/** Below this many cycles the hand-over costs more than half the work. Measured, no source. */
+const MIN_SHARED_CYCLES = 256;
+
+/** Zero-filled sample columns in shared memory (ImportOptions.allocateSamples). */
+export function sharedSamples(length: number): Float32Array {
+  return new Float32Array(new SharedArrayBuffer(length * Float32Array.BYTES_PER_ELEMENT));
+}
+
+export class ParallelDemodulator {
+  private readonly worker: Worker;
+  private ready = false;
+  private broken = false;
+
+  /** True once the worker runs and has not failed. */
+  get usable(): boolean {
+    return this.ready && !this.broken;
+  }
+
+  /** Demodulations split over both threads so far (for tests). */
+  shared = 0;
+
+  constructor(workerScript = join(__dirname, 'demodWorker.js')) {
+    this.worker = new Worker(workerScript);
+    this.worker.once('online', () => (this.ready = true));
+    this.worker.once('error', () => (this.broken = true));
+    this.worker.once('exit', () => (this.broken = true));
+    this.worker.unref();
+  }
+
+  readonly demodulate: CycleDemodulator = (channels, track, sampleCount) => {
+    const bounds = cycleBoundaries(track, sampleCount);
+    const cycles = bounds.length - 1;
+    const shareable = channels.every((c) => c instanceof Float32Array && c.buffer instanceof SharedArrayBuffer);
+    if (!this.usable || !shareable || cycles < MIN_SHARED_CYCLES) return demodulateCycleRange(channels, track, bounds);
+    const split = cycles >> 1;
+    const theirBounds = bounds.slice(split);
+    const theirCycles = cycles - split;
+    const out = new Float64Array(new SharedArrayBuffer((5 + 3 * channels.length) * theirCycles * Float64Array.BYTES_PER_ELEMENT));
+    const flag = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
+    const job: DemodJob = { channels: channels as readonly Float32Array[], track: plainTrack(track), bounds: theirBounds, out, flag };
+    this.worker.postMessage(job);
+    const started = performance.now();
+    const mine = demodulateCycleRange(channels, track, bounds.subarray(0, split + 1));
+    // A worker that died mid-job never sets the flag: wait a generous multiple of this half's time.
+    const waitMs = Math.max(2000, 20 * (performance.now() - started));
+    Atomics.wait(flag, 0, DEMOD_PENDING, waitMs);
+    let theirs: CyclePhasors;
+    if (Atomics.load(flag, 0) === DEMOD_DONE) {
+      theirs = readPhasors(out, theirCycles, channels.length);
+      this.shared++;
+    } else {
+      this.broken = true;
+      theirs = demodulateCycleRange(channels, track, theirBounds);
+    }
+    return joinCyclePhasors([mine, theirs]);
+  };
+
+  async close(): Promise<void> {
+    await this.worker.terminate();
+  }
+}
+
+function plainTrack(track: CarrierTrack): CarrierTrack {
+  return { sampleRateHz: track.sampleRateHz, centreSample: track.centreSample, halfSpanSamples: track.halfSpanSamples, coefficients: [...track.coefficients] };
+}

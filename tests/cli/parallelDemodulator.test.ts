@@ -1,0 +1,72 @@
+import { execFile } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { promisify } from 'node:util';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { ParallelDemodulator, sharedSamples } from '../../app/cli/parallelDemodulator.js';
+import { constantCarrierTrack } from '../../core/carrier/carrierTrack.js';
+import { demodulateCycles } from '../../core/demod/demodulateCycles.js';
+import { createRandom } from '../../core/synth/random.js';
+
+const WORKER = resolve('dist/cli/demodWorker.js');
+
+beforeAll(async () => {
+  await promisify(execFile)(process.execPath, ['app/build.mjs']);
+}, 120_000);
+
+/** Seeded carrier-modulated lines, `shared` ones in shared memory (as the CLI imports them). */
+function lines(n: number, shared: boolean): { channels: Float32Array[]; track: ReturnType<typeof constantCarrierTrack> } {
+  const fs = 100_000;
+  const random = createRandom(4242);
+  const channels = [0, 1, 2, 3].map((k) => {
+    const c = shared ? sharedSamples(n) : new Float32Array(n);
+    for (let i = 0; i < n; i++) c[i] = (1 + k) * Math.sin(2 * Math.PI * 400.7 * (i / fs) + 0.4 + k) * Math.cos(i / 20000) + 0.01 * random.normal();
+    return c;
+  });
+  return { channels, track: constantCarrierTrack(fs, 400.7, 0.4, n) };
+}
+
+/** Resolves once the worker has started (its 'online' event is handled on this thread's loop). */
+async function started(helper: ParallelDemodulator, tries = 200): Promise<void> {
+  for (let k = 0; k < tries && !helper.usable; k++) await new Promise((r) => setTimeout(r, 10));
+}
+
+describe('ParallelDemodulator', () => {
+  it('splits the cycles over two threads and gives demodulateCycles bit for bit (the oracle: one thread)', async () => {
+    const helper = new ParallelDemodulator(WORKER);
+    try {
+      await started(helper);
+      expect(helper.usable).toBe(true);
+      const { channels, track } = lines(400_000, true);
+      const got = helper.demodulate(channels, track, 400_000);
+      expect(helper.shared).toBe(1);
+      expect(got).toEqual(demodulateCycles(channels, track, 400_000));
+    } finally {
+      await helper.close();
+    }
+  }, 60_000);
+
+  it('stays on this thread for samples outside shared memory, a short record or a worker that fails', async () => {
+    const helper = new ParallelDemodulator(WORKER);
+    const dir = mkdtempSync(join(tmpdir(), 'statorscope-demod-'));
+    const bad = join(dir, 'badWorker.js');
+    writeFileSync(bad, "throw new Error('no worker today');\n");
+    const broken = new ParallelDemodulator(bad);
+    try {
+      await started(helper);
+      const plain = lines(200_000, false);
+      expect(helper.demodulate(plain.channels, plain.track, 200_000)).toEqual(demodulateCycles(plain.channels, plain.track, 200_000));
+      const short = lines(20_000, true);
+      expect(helper.demodulate(short.channels, short.track, 20_000)).toEqual(demodulateCycles(short.channels, short.track, 20_000));
+      expect(helper.shared).toBe(0);
+      await new Promise((r) => setTimeout(r, 300));
+      const shared = lines(200_000, true);
+      expect(broken.demodulate(shared.channels, shared.track, 200_000)).toEqual(demodulateCycles(shared.channels, shared.track, 200_000));
+      expect(broken.shared).toBe(0);
+    } finally {
+      await helper.close();
+      await broken.close();
+    }
+  }, 60_000);
+});
