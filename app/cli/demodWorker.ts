@@ -5,46 +5,8 @@
  * waits on it, that they are there.
  */
 import { parentPort } from 'node:worker_threads';
-import { demodulateCycleRange, type CyclePhasors } from '../../core/demod/demodulateCycles.js';
-import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
-
-export interface DemodJob {
-  readonly channels: readonly Float32Array[];
-  readonly track: CarrierTrack;
-  /** Cycle boundaries of the range (cycleBoundaries entries, first to last). */
-  readonly bounds: Float64Array;
-  /** (5 + 3 * channels) * cycles doubles: see writePhasors. */
-  readonly out: Float64Array;
-  /** [state]: 0 pending, 1 done, 2 failed. */
-  readonly flag: Int32Array;
-}
-
-export const DEMOD_PENDING = 0;
-export const DEMOD_DONE = 1;
-export const DEMOD_FAILED = 2;
-
-/** Lays the phasors of `cycles` cycles out in `out`: the five per-cycle rows, then I, Q, DC per channel. */
-export function writePhasors(p: CyclePhasors, out: Float64Array): void {
-  const m = p.cycleCount;
-  const rows = [p.centreS, p.firstSample, p.lengthSamples, p.radPerSample, p.centrePhaseRad, ...p.inPhase.flatMap((_, ch) => [p.inPhase[ch]!, p.quadrature[ch]!, p.dc[ch]!])];
-  rows.forEach((row, r) => out.set(row.subarray(0, m), r * m));
-}
-
-/** The phasors laid out by writePhasors (views of `out`). */
-export function readPhasors(out: Float64Array, cycles: number, channels: number): CyclePhasors {
-  const row = (r: number): Float64Array => out.subarray(r * cycles, (r + 1) * cycles);
-  return {
-    cycleCount: cycles,
-    centreS: row(0),
-    firstSample: row(1),
-    lengthSamples: row(2),
-    radPerSample: row(3),
-    centrePhaseRad: row(4),
-    inPhase: Array.from({ length: channels }, (_, ch) => row(5 + 3 * ch)),
-    quadrature: Array.from({ length: channels }, (_, ch) => row(6 + 3 * ch)),
-    dc: Array.from({ length: channels }, (_, ch) => row(7 + 3 * ch)),
-  };
-}
+import { demodulateCycleRange } from '../../core/demod/demodulateCycles.js';
+import { DEMOD_DONE, DEMOD_FAILED, writePhasors, type DemodJob } from './demodJob.js';
 
 if (parentPort) {
   parentPort.on('message', (job: DemodJob) => {

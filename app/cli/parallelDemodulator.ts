@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { cycleBoundaries, demodulateCycleRange, joinCyclePhasors, type CycleDemodulator, type CyclePhasors } from '../../core/demod/demodulateCycles.js';
 import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
-import { DEMOD_DONE, DEMOD_PENDING, readPhasors, type DemodJob } from './demodWorker.js';
+import { DEMOD_DONE, DEMOD_PENDING, readPhasors, type DemodJob } from './demodJob.js';
 
 /** Below this many cycles the hand-over costs more than half the work. Measured, no source. */
 const MIN_SHARED_CYCLES = 256;
