@@ -28,14 +28,17 @@ export async function analyzeFile(path: string, displayName: string, options: An
   const fits = checkCaptureFits(displayName, estimate, captureMemoryLimitBytes(workers));
   if (!fits.ok) throw new FileCaptureError(fits.message);
   // A large capture read on the main thread with a second core: its samples go to shared memory
-  // and the demodulation is split over two threads (the worker starts while the file is read).
-  const helper = estimate.fileBytes >= SPLIT_MIN_BYTES && isMainThread && availableParallelism() >= 2 ? new ParallelDemodulator() : undefined;
+  // and the demodulation is split over two threads (the worker starts once the file is read,
+  // while the analysis finds the carrier, so as not to slow the two-thread parse).
+  const shared = estimate.fileBytes >= SPLIT_MIN_BYTES && isMainThread && availableParallelism() >= 2;
+  let helper: ParallelDemodulator | undefined;
   try {
     const imported = await readCaptureFile(path, {
       maxSamples: fits.maxSamples,
       sizeHintBytes: estimate.fileBytes,
-      ...(helper ? { allocateSamples: sharedSamples } : {}),
+      ...(shared ? { allocateSamples: sharedSamples } : {}),
     });
+    if (shared) helper = new ParallelDemodulator();
     const analysis = analyzeCapture(imported.capture, options, helper ? { demodulate: helper.demodulate } : {});
     return { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
   } catch (error) {

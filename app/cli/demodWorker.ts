@@ -4,7 +4,7 @@
  * memory, the results go into a shared buffer, and a shared flag tells the main thread, which
  * waits on it, that they are there.
  */
-import { parentPort } from 'node:worker_threads';
+import { parentPort, workerData } from 'node:worker_threads';
 import { demodulateCycleRange } from '../../core/demod/demodulateCycles.js';
 import { DEMOD_DONE, DEMOD_FAILED, writePhasors, type DemodJob } from './demodJob.js';
 
@@ -19,4 +19,7 @@ if (parentPort) {
     Atomics.store(job.flag, 0, state);
     Atomics.notify(job.flag, 0);
   });
+  // Tells the main thread, through shared memory, that jobs are now taken.
+  const alive = (workerData as { alive?: Int32Array } | null)?.alive;
+  if (alive instanceof Int32Array) Atomics.store(alive, 0, DEMOD_DONE);
 }

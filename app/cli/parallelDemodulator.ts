@@ -6,7 +6,7 @@
  * demodulateCycles gives, bit for bit. The analysis pipeline is synchronous: this thread waits
  * for the worker on a shared flag (Atomics.wait) rather than on a message.
  *
- * Used only when the worker has reported ready, every channel lies in shared memory and the
+ * Used only when the worker has said it listens, every channel lies in shared memory and the
  * record holds enough cycles; otherwise, or when the worker fails, all of it is done here.
  */
 import { join } from 'node:path';
@@ -25,20 +25,23 @@ export function sharedSamples(length: number): Float32Array {
 
 export class ParallelDemodulator {
   private readonly worker: Worker;
-  private ready = false;
+  /** [state] set by the worker once it listens (DEMOD_DONE), read without the event loop. */
+  private readonly alive = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
   private broken = false;
 
-  /** True once the worker runs and has not failed. */
+  /**
+   * True once the worker listens and has not been seen to fail. Read from shared memory, so it
+   * turns true while this thread is busy (the analysis does not yield to the event loop).
+   */
   get usable(): boolean {
-    return this.ready && !this.broken;
+    return Atomics.load(this.alive, 0) === DEMOD_DONE && !this.broken;
   }
 
   /** Demodulations split over both threads so far (for tests). */
   shared = 0;
 
   constructor(workerScript = join(__dirname, 'demodWorker.js')) {
-    this.worker = new Worker(workerScript);
-    this.worker.once('online', () => (this.ready = true));
+    this.worker = new Worker(workerScript, { workerData: { alive: this.alive } });
     this.worker.once('error', () => (this.broken = true));
     this.worker.once('exit', () => (this.broken = true));
     this.worker.unref();
