@@ -126,11 +126,6 @@ export class BodyPartParser {
     this.body = new NumericBodyParser({ ...plan.body, expectedRows }, new LineFindingCollector(plan.perCodeLimit), this.recorder, this.held);
   }
 
-  /** Rows parsed since the last slice. */
-  get rows(): number {
-    return this.body.rows;
-  }
-
   push(chunk: Uint8Array): void {
     if (this.finished) throw new RangeError('push() called after finish()');
     if (Object.getPrototypeOf(chunk) !== Uint8Array.prototype) chunk = new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
