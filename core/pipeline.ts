@@ -5,6 +5,7 @@ import { combineUnits } from './combineUnits.js';
 import { demodulateCycles, type CycleDemodulator } from './demod/demodulateCycles.js';
 import { checkCaptureQuality } from './diagnostics/captureQuality.js';
 import { clippedFraction } from './diagnostics/clippedFraction.js';
+import type { SampleExtremes } from './diagnostics/sampleExtremes.js';
 import { checkShaftFacts } from './diagnostics/shaftFacts.js';
 import type { Analysis } from './model/analysis.js';
 import type { Capture } from './model/capture.js';
@@ -29,10 +30,16 @@ const STATOR_BASES = new Set(['s1s3', 's3s2', 's2s1', 's3s1', 's2s3', 's1s2', 's
 export interface AnalysisEngine {
   /** Per-cycle demodulation (the carrier track's pass and every channel's). */
   readonly demodulate?: CycleDemodulator;
+  /**
+   * Starts measuring each channel's extremes (the clipping check's first pass), e.g. on another
+   * thread while the carrier is found, and returns a function that gives them when needed.
+   */
+  readonly startExtremes?: (channels: readonly Float32Array[]) => () => readonly SampleExtremes[];
 }
 
 export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, engine: AnalysisEngine = {}): Analysis {
   const demodulate = engine.demodulate ?? demodulateCycles;
+  const extremes = engine.startExtremes?.(capture.channels.map((c) => c.samples));
   const assignment = assignRoles(capture, options);
   const findings: Finding[] = [...assignment.findings];
   const roles = assignment.roles;
@@ -77,7 +84,8 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, e
   const slot = (channel: number): number => used.indexOf(channel);
   const samplesPerCycle = capture.sampleRateHz / carrier.frequencyHz;
   const refPeakV = hasRef ? carrier.referenceRmsV * Math.SQRT2 : NaN;
-  const clipped = capture.channels.map((c) => clippedFraction(c.samples, capture.sampleCount, samplesPerCycle, c.extremes));
+  const measured = extremes?.();
+  const clipped = capture.channels.map((c, i) => clippedFraction(c.samples, capture.sampleCount, samplesPerCycle, measured?.[i]));
 
   // Stator units first (a CT's error is read against its transmitter's phase lead).
   const ctx = { capture, phasors, slot, carrier, refPeakV, options };

@@ -39,7 +39,7 @@ export async function analyzeFile(path: string, displayName: string, options: An
       ...(shared ? { allocateSamples: sharedSamples } : {}),
     });
     if (shared) helper = new ParallelDemodulator();
-    const analysis = analyzeCapture(imported.capture, options, helper ? { demodulate: helper.demodulate } : {});
+    const analysis = analyzeCapture(imported.capture, options, helper ? { demodulate: helper.demodulate, startExtremes: helper.startExtremes } : {});
     return { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
   } catch (error) {
     if (error instanceof CaptureError) throw new FileCaptureError(error.describeIn(displayName));

@@ -5,8 +5,10 @@
  */
 import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
 import type { CyclePhasors } from '../../core/demod/demodulateCycles.js';
+import type { SampleExtremes } from '../../core/diagnostics/sampleExtremes.js';
 
 export interface DemodJob {
+  readonly kind: 'demodulate';
   readonly channels: readonly Float32Array[];
   readonly track: CarrierTrack;
   /** Cycle boundaries of the range (cycleBoundaries entries, first to last). */
@@ -15,6 +17,30 @@ export interface DemodJob {
   readonly out: Float64Array;
   /** [state]: 0 pending, 1 done, 2 failed. */
   readonly flag: Int32Array;
+}
+
+/** The extremes of whole channels (measureSampleExtremes); `out` holds EXTREMES_FIELDS per channel. */
+export interface ExtremesJob {
+  readonly kind: 'extremes';
+  readonly channels: readonly Float32Array[];
+  readonly out: Float64Array;
+  readonly flag: Int32Array;
+}
+
+export type HelperJob = DemodJob | ExtremesJob;
+
+export const EXTREMES_FIELDS = 5;
+
+/** Lays extremes out as sampleCount, lo, hi, countLo, countHi per channel. */
+export function writeExtremes(extremes: readonly SampleExtremes[], out: Float64Array): void {
+  extremes.forEach((e, ch) => out.set([e.sampleCount, e.lo, e.hi, e.countLo, e.countHi], ch * EXTREMES_FIELDS));
+}
+
+export function readExtremes(out: Float64Array, channels: number): SampleExtremes[] {
+  return Array.from({ length: channels }, (_, ch) => {
+    const o = ch * EXTREMES_FIELDS;
+    return { sampleCount: out[o]!, lo: out[o + 1]!, hi: out[o + 2]!, countLo: out[o + 3]!, countHi: out[o + 4]! };
+  });
 }
 
 export const DEMOD_PENDING = 0;

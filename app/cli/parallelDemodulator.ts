@@ -13,10 +13,14 @@ import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { cycleBoundaries, demodulateCycleRange, joinCyclePhasors, type CycleDemodulator, type CyclePhasors } from '../../core/demod/demodulateCycles.js';
 import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
-import { DEMOD_DONE, DEMOD_PENDING, readPhasors, type DemodJob } from './demodJob.js';
+import { measureSampleExtremes, type SampleExtremes } from '../../core/diagnostics/sampleExtremes.js';
+import { DEMOD_DONE, DEMOD_PENDING, EXTREMES_FIELDS, readExtremes, readPhasors, type DemodJob, type ExtremesJob } from './demodJob.js';
 
 /** Below this many cycles the hand-over costs more than half the work. Measured, no source. */
 const MIN_SHARED_CYCLES = 256;
+
+/** Longest wait for the extremes from their start: the worker's start-up plus ~25 ns/sample. */
+const EXTREMES_WAIT_MS = 3000;
 
 /** Zero-filled sample columns in shared memory (ImportOptions.allocateSamples). */
 export function sharedSamples(length: number): Float32Array {
@@ -37,7 +41,7 @@ export class ParallelDemodulator {
     return Atomics.load(this.alive, 0) === DEMOD_DONE && !this.broken;
   }
 
-  /** Demodulations split over both threads so far (for tests). */
+  /** Jobs the worker did so far (demodulations split over both threads, extremes measured; for tests). */
   shared = 0;
 
   constructor(workerScript = join(__dirname, 'demodWorker.js')) {
@@ -57,7 +61,7 @@ export class ParallelDemodulator {
     const theirCycles = cycles - split;
     const out = new Float64Array(new SharedArrayBuffer((5 + 3 * channels.length) * theirCycles * Float64Array.BYTES_PER_ELEMENT));
     const flag = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
-    const job: DemodJob = { channels: channels as readonly Float32Array[], track: plainTrack(track), bounds: theirBounds, out, flag };
+    const job: DemodJob = { kind: 'demodulate', channels: channels as readonly Float32Array[], track: plainTrack(track), bounds: theirBounds, out, flag };
     this.worker.postMessage(job);
     const started = performance.now();
     const mine = demodulateCycleRange(channels, track, bounds.subarray(0, split + 1));
@@ -73,6 +77,31 @@ export class ParallelDemodulator {
       theirs = demodulateCycleRange(channels, track, theirBounds);
     }
     return joinCyclePhasors([mine, theirs]);
+  };
+
+  /**
+   * Starts measuring the channels' extremes on the worker (AnalysisEngine.startExtremes): the
+   * job waits in the worker's queue if it is still starting, and runs while this thread finds
+   * the carrier. The function returned waits for them; samples outside shared memory, or a
+   * worker seen failing, are measured here instead.
+   */
+  readonly startExtremes = (channels: readonly Float32Array[]): (() => readonly SampleExtremes[]) => {
+    const here = (): SampleExtremes[] => channels.map((c) => measureSampleExtremes(c, 0, c.length));
+    if (this.broken || !channels.every((c) => c.buffer instanceof SharedArrayBuffer)) return here;
+    const out = new Float64Array(new SharedArrayBuffer(EXTREMES_FIELDS * channels.length * Float64Array.BYTES_PER_ELEMENT));
+    const flag = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
+    this.worker.postMessage({ kind: 'extremes', channels, out, flag } satisfies ExtremesJob);
+    // A worker that never starts (a broken script) is only seen on the event loop: bounded wait.
+    const started = performance.now();
+    return () => {
+      Atomics.wait(flag, 0, DEMOD_PENDING, Math.max(0, EXTREMES_WAIT_MS - (performance.now() - started)));
+      if (Atomics.load(flag, 0) === DEMOD_DONE) {
+        this.shared++;
+        return readExtremes(out, channels.length);
+      }
+      this.broken = true;
+      return here();
+    };
   };
 
   async close(): Promise<void> {

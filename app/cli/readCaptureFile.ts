@@ -12,10 +12,10 @@ const CHUNK_BYTES = 1 << 20;
 export const SPLIT_MIN_BYTES = 32 * 1024 * 1024;
 
 /**
- * Share of the file's bytes this thread parses: besides its part it measures its rows' extremes
- * and merges the worker's slices (time stamps through the time-base fit, rows copied in, about
- * 0.15 s on a 10^7-row capture), while the worker starts late (about 0.05 s) and parses a little
- * slower. Measured on a shared two-core machine, no source: 0.4-0.5 within run-to-run noise.
+ * Share of the file's bytes this thread parses: besides its part it merges the worker's slices
+ * (time stamps through the time-base fit, rows copied in, about 0.15 s on a 10^7-row capture),
+ * while the worker starts late (about 0.05 s) and parses a little slower. Measured on a shared
+ * two-core machine, no source: 0.45-0.5 within run-to-run noise.
  */
 const HEAD_SHARE = 0.5;
 
@@ -118,9 +118,7 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
       split.onSplit?.('single');
       return parser.finish();
     }
-    // The head's share of the merge while the worker may still be parsing; then its slices are
-    // merged as they come.
-    parser.prepareForPart();
+    // The worker's slices are merged as they come.
     let appended = 0;
     let refused = false;
     try {

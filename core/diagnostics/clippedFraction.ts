@@ -8,9 +8,9 @@ import { measureSampleExtremes, type SampleExtremes } from './sampleExtremes.js'
  */
 export function clippedFraction(samples: Float32Array, sampleCount: number, samplesPerPeriod: number, extremes?: SampleExtremes): number {
   if (sampleCount === 0) return 0;
-  // Pass 1: the extremes and how many samples sit on each (given by the importer when it measured
-  // them). Pass 2 (runs on the extremes) is only needed when enough samples sit there to form a
-  // flat top, which a clean capture never has.
+  // Pass 1: the extremes and how many samples sit on each (given when measured elsewhere). Pass 2
+  // (runs on the extremes) is only needed when enough samples sit there to form a flat top,
+  // which a clean capture never has.
   const { lo, hi, countLo, countHi } = extremes !== undefined && extremes.sampleCount === sampleCount ? extremes : measureSampleExtremes(samples, 0, sampleCount);
   if (!(hi > lo)) return 0;
   const minRun = Math.max(4, Math.round(samplesPerPeriod / 20));

@@ -3,7 +3,6 @@ import type { Capture, CaptureChannel } from '../model/capture.js';
 import { CaptureError } from '../model/errors.js';
 import { finding, type Finding } from '../model/findings.js';
 import { LineFindingCollector } from './collectLineFindings.js';
-import { measureSampleExtremes, mergeSampleExtremes, type SampleExtremes } from '../diagnostics/sampleExtremes.js';
 import { mergeBodyPart, type BodyPart, type BodyPartPlan } from './parseBodyPart.js';
 import { COLUMN_CHANNEL, COLUMN_IGNORED, COLUMN_TIME, NumericBodyParser, type BodyPlan } from './parseNumericBody.js';
 import { SNIFF_BYTES, sniffCaptureLayout, type SniffedLayout } from './sniffCaptureLayout.js';
@@ -91,11 +90,6 @@ export interface SplittableCaptureParser extends CaptureParser {
   appendPart(part: BodyPart): boolean;
   /** Ends the input after the parts appended; the result is the one a single pass gives. */
   finishAppended(): ImportResult;
-  /**
-   * Optional, once the whole head is pushed: does the head's share of the finishing work now
-   * (the extremes of its rows), for a thread that would otherwise wait for the part.
-   */
-  prepareForPart(): void;
 }
 
 /** createCaptureParser, with the split-body methods. */
@@ -163,11 +157,6 @@ class StreamingCaptureParser implements SplittableCaptureParser {
   private bom = false;
   private feeder: LineRegionFeeder | undefined;
   private finished = false;
-  /**
-   * Extremes of each channel column over the rows so far, kept from prepareForPart() and merged
-   * with each appended part's.
-   */
-  private shares: { rows: number; extremes: (SampleExtremes | undefined)[] } | undefined;
   /** Set by the first appendPart(): no more bytes of the head may be pushed. */
   private appending = false;
   private bodyPlan: BodyPlan | undefined;
@@ -227,36 +216,25 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     };
   }
 
-  prepareForPart(): void {
-    if (this.finished || this.body === undefined || this.shares !== undefined) return;
-    this.shares = this.measureHead();
-  }
-
   appendPart(part: BodyPart): boolean {
     if (this.finished) throw new RangeError('appendPart() called after the parser finished');
     const body = this.body;
     if (!this.appending) {
       if (this.bodyPartPlan(0) === undefined) throw new RangeError('appendPart() needs a parser that gave a body part plan');
       if (this.lastPushedByte !== 10 || this.feeder!.pendingBytes > 0) throw new RangeError('appendPart() needs the bytes pushed to end with a line feed');
-      if (this.shares?.rows !== body!.rows) this.shares = this.measureHead();
       this.appending = true;
     }
     if (!mergeBodyPart(body!, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples)) {
       this.finished = true;
       return false;
     }
-    const shares = this.shares!;
-    this.shares = {
-      rows: body!.rows,
-      extremes: shares.extremes.map((h, k) => (h === undefined || part.extremes[k] === undefined ? undefined : mergeSampleExtremes(h, part.extremes[k]!))),
-    };
     return true;
   }
 
   finishAppended(): ImportResult {
     if (this.finished || !this.appending) throw new RangeError('finishAppended() needs appendPart() to have merged a part');
     this.finished = true;
-    return this.result(this.shares!.extremes);
+    return this.result();
   }
 
   finishWithPart(part: BodyPart): ImportResult | undefined {
@@ -270,12 +248,6 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     const copy = allocate(rows);
     copy.set(column.subarray(0, rows));
     return copy;
-  }
-
-  /** Extremes of each channel column over the rows read so far. */
-  private measureHead(): { rows: number; extremes: (SampleExtremes | undefined)[] } {
-    const body = this.body!;
-    return { rows: body.rows, extremes: body.columns.map((c) => (c.length > 0 ? measureSampleExtremes(c, 0, body.rows) : undefined)) };
   }
 
   private sniff(final: boolean): void {
@@ -377,8 +349,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     this.feeder!.feed(chunk);
   }
 
-  /** The import's result; `extremes` per file column when they were measured in shares. */
-  private result(extremes?: (SampleExtremes | undefined)[]): ImportResult {
+  private result(): ImportResult {
     const s = this.sniffed!;
     const body = this.body!;
     const rows = body.rows;
@@ -453,7 +424,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
       const column = body.columns[k];
       // A view when little is unused (a presized column), a copy otherwise (frees the rest).
       const samples = column.length === rows ? column : rows >= 0.85 * column.length ? column.subarray(0, rows) : this.copyOf(column, rows);
-      return { column: k, label: c.label, unit: c.unit, samples, extremes: extremes?.[k] };
+      return { column: k, label: c.label, unit: c.unit, samples };
     });
     const capture: Capture = { sampleRateHz, startS, sampleCount: rows, channels };
     const layout: CaptureLayout = {

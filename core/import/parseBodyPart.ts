@@ -1,4 +1,3 @@
-import { measureSampleExtremes, type SampleExtremes } from '../diagnostics/sampleExtremes.js';
 import { LineRegionFeeder } from './lineRegionFeeder.js';
 import { LineFindingCollector } from './collectLineFindings.js';
 import { COLUMN_CHANNEL, NumericBodyParser, type BodyEvent, type BodyPlan, type HeldBodyEvents, type TimeStampSink } from './parseNumericBody.js';
@@ -29,8 +28,6 @@ export interface BodyPart {
   readonly nextLine: number;
   /** One entry per file column: the samples of a channel column, undefined otherwise. */
   readonly columns: (Float32Array | undefined)[];
-  /** One entry per file column: the extremes of a channel column's samples, undefined otherwise. */
-  readonly extremes: (SampleExtremes | undefined)[];
   /** Per row: time stamp in seconds (NaN when not a number) and power of ten of its last digit. */
   readonly timeS: Float64Array | undefined;
   /** Clamped to the int16 range, which changes nothing: powerOfTen() saturates beyond ±324. */
@@ -163,7 +160,6 @@ export class BodyPartParser {
       rows,
       nextLine: b.line,
       columns,
-      extremes: columns.map((c) => (c === undefined ? undefined : measureSampleExtremes(c, 0, rows))),
       timeS: r?.timeS.subarray(0, r.count),
       timeExponent: r?.exponent.subarray(0, r.count),
       lineMarks: r ? r.marks.slice(0, r.markCount) : new Int32Array(0),

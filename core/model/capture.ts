@@ -1,5 +1,3 @@
-import type { SampleExtremes } from '../diagnostics/sampleExtremes.js';
-
 /**
  * The in-memory form of one oscilloscope capture, after import.
  *
@@ -15,12 +13,6 @@ export interface CaptureChannel {
   readonly unit: string;
   /** Samples in the unit above (values given in mV are scaled to V on import). */
   readonly samples: Float32Array;
-  /**
-   * Lowest and highest sample and their counts, when the importer measured them (it does so on
-   * each thread's share of a file parsed on two threads, where it saves the analysis a pass);
-   * used only while its sampleCount matches the capture's.
-   */
-  readonly extremes?: SampleExtremes;
 }
 
 export interface Capture {

@@ -7,6 +7,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { ParallelDemodulator, sharedSamples } from '../../app/cli/parallelDemodulator.js';
 import { constantCarrierTrack } from '../../core/carrier/carrierTrack.js';
 import { demodulateCycles } from '../../core/demod/demodulateCycles.js';
+import { measureSampleExtremes } from '../../core/diagnostics/sampleExtremes.js';
 import { createRandom } from '../../core/synth/random.js';
 
 const WORKER = resolve('dist/cli/demodWorker.js');
@@ -47,6 +48,23 @@ describe('ParallelDemodulator', () => {
     }
   }, 60_000);
 
+  it('measures the extremes on the worker as measureSampleExtremes does here (the oracle), and here when it cannot', async () => {
+    const helper = new ParallelDemodulator(WORKER);
+    try {
+      const { channels } = lines(300_000, true);
+      const want = channels.map((c) => measureSampleExtremes(c, 0, c.length));
+      // Started before the worker listens: the job waits in its queue.
+      const pending = helper.startExtremes(channels);
+      expect(pending()).toEqual(want);
+      expect(helper.shared).toBe(1);
+      const plain = lines(1000, false).channels;
+      expect(helper.startExtremes(plain)()).toEqual(plain.map((c) => measureSampleExtremes(c, 0, c.length)));
+      expect(helper.shared).toBe(1);
+    } finally {
+      await helper.close();
+    }
+  }, 60_000);
+
   it('stays on this thread for samples outside shared memory, a short record or a worker that fails', async () => {
     const helper = new ParallelDemodulator(WORKER);
     const dir = mkdtempSync(join(tmpdir(), 'statorscope-demod-'));
@@ -63,6 +81,7 @@ describe('ParallelDemodulator', () => {
       await new Promise((r) => setTimeout(r, 300));
       const shared = lines(200_000, true);
       expect(broken.demodulate(shared.channels, shared.track, 200_000)).toEqual(demodulateCycles(shared.channels, shared.track, 200_000));
+      expect(broken.startExtremes(shared.channels)()).toEqual(shared.channels.map((c) => measureSampleExtremes(c, 0, c.length)));
       expect(broken.shared).toBe(0);
     } finally {
       await helper.close();
