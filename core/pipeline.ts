@@ -20,12 +20,6 @@ export type { AnalyzeOptions };
 
 const STATOR_BASES = new Set(['s1s3', 's3s2', 's2s1', 's3s1', 's2s3', 's1s2', 'sin', 'cos', 'ct']);
 
-/**
- * The whole pipeline on one imported capture: roles → carrier → per-cycle phasors → each unit
- * (wiring, angle, unit figures, motion, harmonics, nulls, plane; a CT's error) → units together
- * (two-speed, tracking) → accuracy run → shaft facts → capture quality. Bad data becomes
- * findings; a capture that cannot be analysed throws one CaptureError.
- */
 /** How the pipeline runs its heaviest kernels (the default: on this thread). */
 export interface AnalysisEngine {
   /** Per-cycle demodulation (the carrier track's pass and every channel's). */
@@ -37,6 +31,14 @@ export interface AnalysisEngine {
   readonly startExtremes?: (channels: readonly Float32Array[]) => () => readonly SampleExtremes[];
 }
 
+/**
+ * The whole pipeline on one imported capture: roles → carrier → per-cycle phasors → each unit
+ * (wiring, angle, unit figures, motion, harmonics, nulls, plane; a CT's error) → units together
+ * (two-speed, tracking) → accuracy run → shaft facts → capture quality. Bad data becomes
+ * findings; a capture that cannot be analysed throws one CaptureError. `engine` may run the
+ * demodulation and the clipping check's first pass elsewhere (another thread); it must give the
+ * results this thread would.
+ */
 export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, engine: AnalysisEngine = {}): Analysis {
   const demodulate = engine.demodulate ?? demodulateCycles;
   const extremes = engine.startExtremes?.(capture.channels.map((c) => c.samples));

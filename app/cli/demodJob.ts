@@ -13,7 +13,7 @@ export interface DemodJob {
   readonly track: CarrierTrack;
   /** Cycle boundaries of the range (cycleBoundaries entries, first to last). */
   readonly bounds: Float64Array;
-  /** (5 + 3 * channels) * cycles doubles: see writePhasors. */
+  /** phasorDoubles(channels, cycles) doubles: see writePhasors. */
   readonly out: Float64Array;
   /** [state]: 0 pending, 1 done, 2 failed. */
   readonly flag: Int32Array;
@@ -30,6 +30,21 @@ export interface ExtremesJob {
 export type HelperJob = DemodJob | ExtremesJob;
 
 export const EXTREMES_FIELDS = 5;
+
+/** Doubles writePhasors lays out for `cycles` cycles of `channels` channels. */
+export function phasorDoubles(channels: number, cycles: number): number {
+  return (5 + 3 * channels) * cycles;
+}
+
+/** A zero-filled Float64Array in shared memory, for a job's results. */
+export function sharedDoubles(length: number): Float64Array {
+  return new Float64Array(new SharedArrayBuffer(length * Float64Array.BYTES_PER_ELEMENT));
+}
+
+/** A job's flag in shared memory, DEMOD_PENDING to start with. */
+export function sharedFlag(): Int32Array {
+  return new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
+}
 
 /** Lays extremes out as sampleCount, lo, hi, countLo, countHi per channel. */
 export function writeExtremes(extremes: readonly SampleExtremes[], out: Float64Array): void {

@@ -14,7 +14,18 @@ import { Worker } from 'node:worker_threads';
 import { cycleBoundaries, demodulateCycleRange, joinCyclePhasors, type CycleDemodulator, type CyclePhasors } from '../../core/demod/demodulateCycles.js';
 import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
 import { measureSampleExtremes, type SampleExtremes } from '../../core/diagnostics/sampleExtremes.js';
-import { DEMOD_DONE, DEMOD_PENDING, EXTREMES_FIELDS, readExtremes, readPhasors, type DemodJob, type ExtremesJob } from './demodJob.js';
+import {
+  DEMOD_DONE,
+  DEMOD_PENDING,
+  EXTREMES_FIELDS,
+  phasorDoubles,
+  readExtremes,
+  readPhasors,
+  sharedDoubles,
+  sharedFlag,
+  type DemodJob,
+  type ExtremesJob,
+} from './demodJob.js';
 
 /** Below this many cycles the hand-over costs more than half the work. Measured, no source. */
 const MIN_SHARED_CYCLES = 256;
@@ -30,7 +41,7 @@ export function sharedSamples(length: number): Float32Array {
 export class ParallelDemodulator {
   private readonly worker: Worker;
   /** [state] set by the worker once it listens (DEMOD_DONE), read without the event loop. */
-  private readonly alive = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
+  private readonly alive = sharedFlag();
   private broken = false;
 
   /**
@@ -59,8 +70,8 @@ export class ParallelDemodulator {
     const split = cycles >> 1;
     const theirBounds = bounds.slice(split);
     const theirCycles = cycles - split;
-    const out = new Float64Array(new SharedArrayBuffer((5 + 3 * channels.length) * theirCycles * Float64Array.BYTES_PER_ELEMENT));
-    const flag = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
+    const out = sharedDoubles(phasorDoubles(channels.length, theirCycles));
+    const flag = sharedFlag();
     const job: DemodJob = { kind: 'demodulate', channels: channels as readonly Float32Array[], track: plainTrack(track), bounds: theirBounds, out, flag };
     this.worker.postMessage(job);
     const started = performance.now();
@@ -88,8 +99,8 @@ export class ParallelDemodulator {
   readonly startExtremes = (channels: readonly Float32Array[]): (() => readonly SampleExtremes[]) => {
     const here = (): SampleExtremes[] => channels.map((c) => measureSampleExtremes(c, 0, c.length));
     if (this.broken || !channels.every((c) => c.buffer instanceof SharedArrayBuffer)) return here;
-    const out = new Float64Array(new SharedArrayBuffer(EXTREMES_FIELDS * channels.length * Float64Array.BYTES_PER_ELEMENT));
-    const flag = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
+    const out = sharedDoubles(EXTREMES_FIELDS * channels.length);
+    const flag = sharedFlag();
     this.worker.postMessage({ kind: 'extremes', channels, out, flag } satisfies ExtremesJob);
     // A worker that never starts (a broken script) is only seen on the event loop: bounded wait.
     const started = performance.now();

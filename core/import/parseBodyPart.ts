@@ -112,7 +112,7 @@ export class BodyPartParser {
     this.plan = plan;
     this.kinds = plan.body.kinds;
     this.sliceRows = sliceRows ?? plan.body.expectedRows;
-    this.restart(sliceRows ?? plan.body.expectedRows);
+    this.restart(this.sliceRows);
     this.feeder = new LineRegionFeeder((bytes, from, to) => this.body.parseRegion(bytes, from, to));
   }
 
