@@ -28,17 +28,21 @@ export async function analyzeFile(path: string, displayName: string, options: An
   const fits = checkCaptureFits(displayName, estimate, captureMemoryLimitBytes(workers));
   if (!fits.ok) throw new FileCaptureError(fits.message);
   // A large capture read on the main thread with a second core: its samples go to shared memory
-  // and the demodulation is split over two threads (the worker starts once the file is read,
-  // while the analysis finds the carrier, so as not to slow the two-thread parse).
+  // and the demodulation is split over two threads. The worker starts once the two-thread parse
+  // has parsed its head (so as not to slow it), and boots while the parse worker's rows are
+  // merged; after a one-thread read it starts then, while the analysis finds the carrier.
   const shared = estimate.fileBytes >= SPLIT_MIN_BYTES && isMainThread && availableParallelism() >= 2;
   let helper: ParallelDemodulator | undefined;
+  const startHelper = (): void => {
+    helper ??= new ParallelDemodulator();
+  };
   try {
-    const imported = await readCaptureFile(path, {
-      maxSamples: fits.maxSamples,
-      sizeHintBytes: estimate.fileBytes,
-      ...(shared ? { allocateSamples: sharedSamples } : {}),
-    });
-    if (shared) helper = new ParallelDemodulator();
+    const imported = await readCaptureFile(
+      path,
+      { maxSamples: fits.maxSamples, sizeHintBytes: estimate.fileBytes, ...(shared ? { allocateSamples: sharedSamples } : {}) },
+      shared ? { onHeadParsed: startHelper } : {},
+    );
+    if (shared) startHelper();
     const analysis = analyzeCapture(imported.capture, options, helper ? { demodulate: helper.demodulate, startExtremes: helper.startExtremes } : {});
     return { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
   } catch (error) {

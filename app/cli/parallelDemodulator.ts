@@ -6,8 +6,9 @@
  * demodulateCycles gives, bit for bit. The analysis pipeline is synchronous: this thread waits
  * for the worker on a shared flag (Atomics.wait) rather than on a message.
  *
- * Used only when the worker has said it listens, every channel lies in shared memory and the
- * record holds enough cycles; otherwise, or when the worker fails, all of it is done here.
+ * Used only when the worker has said it listens, is not still busy with an earlier job (the
+ * extremes), every channel lies in shared memory and the record holds enough cycles; otherwise,
+ * or when the worker fails, all of it is done here.
  */
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
@@ -43,6 +44,8 @@ export class ParallelDemodulator {
   /** [state] set by the worker once it listens (DEMOD_DONE), read without the event loop. */
   private readonly alive = sharedFlag();
   private broken = false;
+  /** Flags of the jobs posted whose answer has not been seen yet (see busy). */
+  private pending: Int32Array[] = [];
 
   /**
    * True once the worker listens and has not been seen to fail. Read from shared memory, so it
@@ -51,6 +54,18 @@ export class ParallelDemodulator {
   get usable(): boolean {
     return Atomics.load(this.alive, 0) === DEMOD_DONE && !this.broken;
   }
+
+  /**
+   * True while a job posted earlier is still running or queued on the worker: splitting a
+   * demodulation then would leave this thread waiting for it, so the demodulation runs here.
+   */
+  get busy(): boolean {
+    this.pending = this.pending.filter((flag) => Atomics.load(flag, 0) === DEMOD_PENDING);
+    return this.pending.length > 0;
+  }
+
+  /** Demodulations run wholly here because the worker was busy (for tests). */
+  ranHereWhileBusy = 0;
 
   /** Jobs the worker did so far (demodulations split over both threads, extremes measured; for tests). */
   shared = 0;
@@ -67,6 +82,10 @@ export class ParallelDemodulator {
     const cycles = bounds.length - 1;
     const shareable = channels.every((c) => c instanceof Float32Array && c.buffer instanceof SharedArrayBuffer);
     if (!this.usable || !shareable || cycles < MIN_SHARED_CYCLES) return demodulateCycleRange(channels, track, bounds);
+    if (this.busy) {
+      this.ranHereWhileBusy++;
+      return demodulateCycleRange(channels, track, bounds);
+    }
     const split = cycles >> 1;
     const theirBounds = bounds.slice(split);
     const theirCycles = cycles - split;
@@ -102,6 +121,7 @@ export class ParallelDemodulator {
     const out = sharedDoubles(EXTREMES_FIELDS * channels.length);
     const flag = sharedFlag();
     this.worker.postMessage({ kind: 'extremes', channels, out, flag } satisfies ExtremesJob);
+    this.pending.push(flag);
     // A worker that never starts (a broken script) is only seen on the event loop: bounded wait.
     const started = performance.now();
     return () => {

@@ -43,6 +43,11 @@ export interface SplitOptions {
   readonly workerScript?: string;
   /** Called with what happened, for tests and benches. */
   readonly onSplit?: (how: 'single' | 'split' | 'worker-failed' | 'merge-refused') => void;
+  /**
+   * Called once, when a split read has parsed its head and starts merging the worker's slices:
+   * the moment a helper for the analysis may start without slowing the two-thread parse.
+   */
+  readonly onHeadParsed?: () => void;
 }
 
 /**
@@ -118,6 +123,7 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
       split.onSplit?.('single');
       return parser.finish();
     }
+    split.onHeadParsed?.();
     // The worker's slices are merged as they come.
     let appended = 0;
     let refused = false;

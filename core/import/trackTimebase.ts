@@ -27,11 +27,13 @@ const RUN_BLOCK_ROWS = 4096;
 
 export class TimebaseTracker {
   private n = 0;
-  // Initialised as doubles so the fields never change representation mid-record.
-  private sumI = 0.5 - 0.5;
-  private sumII = 0.5 - 0.5;
-  private sumU = 0.5 - 0.5;
-  private sumIU = 0.5 - 0.5;
+  // Initialised as -0, a value that is never a small integer, so that each field holds a double
+  // from the start: a field that begins as a small integer changes representation once a sum
+  // outgrows it, which deoptimises the parse loop the tracker is inlined into (-0 + x is x).
+  private sumI = -0;
+  private sumII = -0;
+  private sumU = -0;
+  private sumIU = -0;
   private first = NaN;
   private prev = NaN;
   private prediction = NaN;
@@ -40,9 +42,9 @@ export class TimebaseTracker {
   private readonly window = new Float64Array(3 * ANCHOR_WINDOW);
   private windowCount = 0;
   private upperAnchorRow = -1;
-  private upperAnchorHi = 0;
+  private upperAnchorHi = -0;
   private lowerAnchorRow = -1;
-  private lowerAnchorLo = 0;
+  private lowerAnchorLo = -0;
   private intervalMin = -Infinity;
   private intervalMax = Infinity;
   /** Count of rows whose time cell was not a number (excluded from the fit). */
@@ -55,9 +57,9 @@ export class TimebaseTracker {
   private readonly findings: LineFindingCollector;
   // Printed resolution of the last stamp, kept while its exponent and factor repeat.
   private resolutionExponent = 0x7fff;
-  private resolutionFactorS = 0.5 - 0.5;
-  private resolutionS = 0.5 - 0.5;
-  private halfResolutionS = 0.5 - 0.5;
+  private resolutionFactorS = -0;
+  private resolutionS = -0;
+  private halfResolutionS = -0;
 
   constructor(referenceIntervalS: number, findings: LineFindingCollector) {
     this.referenceIntervalS = referenceIntervalS;
@@ -87,7 +89,9 @@ export class TimebaseTracker {
       this.pair(row, u - halfWidth, u + halfWidth);
       this.n = n + 1;
       this.sumI += row;
-      this.sumII += row * row;
+      // row ** 2, not row * row: an int32 product would overflow past row 46340 and deoptimise
+      // the parse loop this is inlined into; a double product is exact below 2^26.5.
+      this.sumII += row ** 2;
       this.sumU += u;
       this.sumIU += row * u;
       this.prediction = prediction + residual * 0.0625;
@@ -154,7 +158,7 @@ export class TimebaseTracker {
           }
           n++;
           sumI += row;
-          sumII += row * row;
+          sumII += row ** 2;
           sumU += u;
           sumIU += row * u;
           prediction = predicted + residual * 0.0625;
@@ -198,7 +202,7 @@ export class TimebaseTracker {
     this.bound(row, u, this.halfResolutionS + Math.abs(tS) * 4e-16);
     this.n++;
     this.sumI += row;
-    this.sumII += row * row;
+    this.sumII += row ** 2;
     this.sumU += u;
     this.sumIU += row * u;
     const dt = this.referenceIntervalS;

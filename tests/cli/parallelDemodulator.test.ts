@@ -65,6 +65,27 @@ describe('ParallelDemodulator', () => {
     }
   }, 60_000);
 
+  it('demodulates here, bit for bit as demodulateCycles (the oracle), while the worker is still measuring the extremes, and splits again once it is done', async () => {
+    const helper = new ParallelDemodulator(WORKER);
+    try {
+      await started(helper);
+      const { channels, track } = lines(400_000, true);
+      const want = demodulateCycles(channels, track, 400_000);
+      const extremes = helper.startExtremes(channels);
+      // Asked right after the extremes were posted: the worker cannot have scanned 1.6e6 samples yet.
+      expect(helper.busy).toBe(true);
+      expect(helper.demodulate(channels, track, 400_000)).toEqual(want);
+      expect(helper.ranHereWhileBusy).toBe(1);
+      extremes();
+      expect(helper.busy).toBe(false);
+      expect(helper.demodulate(channels, track, 400_000)).toEqual(want);
+      expect(helper.ranHereWhileBusy).toBe(1);
+      expect(helper.shared).toBe(2);
+    } finally {
+      await helper.close();
+    }
+  }, 60_000);
+
   it('stays on this thread for samples outside shared memory, a short record or a worker that fails', async () => {
     const helper = new ParallelDemodulator(WORKER);
     const dir = mkdtempSync(join(tmpdir(), 'statorscope-demod-'));

@@ -55,7 +55,7 @@ function expectSame(got: ImportResult, want: ImportResult): void {
 
 async function readSplit(path: string, split: SplitOptions): Promise<{ result: ImportResult; how: string[] }> {
   const how: string[] = [];
-  const result = await readCaptureFile(path, {}, { workerScript: WORKER, ...split, onSplit: (h) => how.push(h) });
+  const result = await readCaptureFile(path, {}, { workerScript: WORKER, ...split, onSplit: (h) => how.push(h), onHeadParsed: () => how.push('head-parsed') });
   return { result, how };
 }
 
@@ -80,12 +80,12 @@ describe('readCaptureFile on two threads', () => {
       for (const fraction of [0.5, 0.5 + 0.4 * rnd.uniform(), 0.1 + 0.4 * rnd.uniform(), 0.62]) {
         const size = (await import('node:fs')).statSync(path).size;
         const { result, how } = await readSplit(path, { splitAt: Math.floor(size * fraction) });
-        expect(how).toEqual(['split']);
+        expect(how).toEqual(['head-parsed', 'split']);
         expectSame(result, single.result);
       }
       // The worker's answer in slices (one per 1 MiB chunk read), merged as they come.
       const sliced = await readSplit(path, { splitAt: 1000, sliceBytes: 1 });
-      expect(sliced.how).toEqual(['split']);
+      expect(sliced.how).toEqual(['head-parsed', 'split']);
       expectSame(sliced.result, single.result);
     }, 60_000);
   }
@@ -97,7 +97,7 @@ describe('readCaptureFile on two threads', () => {
     });
     const single = await readSplit(path, { minBytes: Infinity });
     const sliced = await readSplit(path, { splitAt: 1000, sliceBytes: 1 });
-    expect(sliced.how).toEqual(['split']);
+    expect(sliced.how).toEqual(['head-parsed', 'split']);
     expectSame(sliced.result, single.result);
     // A worker that stops after its third answer (so at least two slices came before the end).
     const quitting = join(dir, 'quittingWorker.js');
@@ -109,7 +109,7 @@ describe('readCaptureFile on two threads', () => {
       `require(${JSON.stringify(WORKER)});`,
     ].join('\n'));
     const quit = await readSplit(path, { splitAt: 1000, sliceBytes: 1, workerScript: quitting });
-    expect(quit.how).toEqual(['worker-failed']);
+    expect(quit.how).toEqual(['head-parsed', 'worker-failed']);
     expectSame(quit.result, single.result);
   }, 60_000);
 
@@ -121,7 +121,7 @@ describe('readCaptureFile on two threads', () => {
     // A split point inside the first chunk already read moves to the first line start after it;
     // one past the last line start cannot be used.
     const early = await readSplit(path, { splitAt: 10 });
-    expect(early.how).toEqual(['split']);
+    expect(early.how).toEqual(['head-parsed', 'split']);
     expectSame(early.result, single.result);
     const size = (await import('node:fs')).statSync(path).size;
     expect((await readSplit(path, { splitAt: size - 2 })).how).toEqual(['single']);
@@ -129,7 +129,7 @@ describe('readCaptureFile on two threads', () => {
     const bad = join(dir, 'badWorker.js');
     writeFileSync(bad, "throw new Error('no worker today');\n");
     const failed = await readSplit(path, { splitAt: 700000, workerScript: bad });
-    expect(failed.how).toEqual(['worker-failed']);
+    expect(failed.how).toEqual(['head-parsed', 'worker-failed']);
     expectSame(failed.result, single.result);
     // A row limit met by the two halves together: read again in one pass, same error.
     const limit = single.result.capture.sampleCount - 10;
@@ -150,7 +150,7 @@ describe('readCaptureFile on two threads', () => {
     const bad = join(dir, 'badWorker2.js');
     writeFileSync(bad, "throw new Error('no worker today');\n");
     const failed = await readSplit(path, { splitAt: 1_500_000, workerScript: bad });
-    expect(failed.how).toEqual(['worker-failed']);
+    expect(failed.how).toEqual(['head-parsed', 'worker-failed']);
     expect(failed.result.capture.sampleCount).toBe(200_000);
     expectSame(failed.result, single.result);
   }, 60_000);
