@@ -11,7 +11,8 @@ import { basename, dirname, join } from 'node:path';
  */
 export async function writeFileAtomic(path: string, content: string): Promise<void> {
   const existing = await stat(path).catch(() => undefined);
-  if (existing !== undefined && !existing.isFile() && !existing.isDirectory()) {
+  if (existing?.isDirectory()) throw writeError('EISDIR', path, `${path} is a folder`);
+  if (existing !== undefined && !existing.isFile()) {
     await writeFile(path, content);
     return;
   }
@@ -21,6 +22,12 @@ export async function writeFileAtomic(path: string, content: string): Promise<vo
     await rename(temp, path);
   } catch (error) {
     await unlink(temp).catch(() => undefined);
-    throw error;
+    // The temporary name is ours, not the user's: errors name the file asked for.
+    const e = error as NodeJS.ErrnoException;
+    throw typeof e.code === 'string' ? writeError(e.code, path, e.message) : error;
   }
+}
+
+function writeError(code: string, path: string, message: string): NodeJS.ErrnoException {
+  return Object.assign(new Error(message), { code, path, syscall: 'write' });
 }

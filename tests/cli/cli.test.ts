@@ -128,6 +128,19 @@ describe('statorscope on bad input: one plain line, non-zero exit, no output fil
     expect((await cli('analyze', 'x.csv', '--roles', 'ref')).stderr).toMatch(/role=channel/);
   });
 
+  it('an output path that is a folder, or in a folder that does not exist, is named as given, with no temporary file left (common practice, no source)', async () => {
+    const capture = join(SAMPLES, 'bench-resolver-dividing-head.csv');
+    const folder = mkdtempSync(join(tmpdir(), 'statorscope-out-'));
+    const intoFolder = await cli('analyze', capture, '--json', folder);
+    expect(intoFolder.code).toBe(1);
+    expect(intoFolder.stderr.trim()).toBe(`statorscope: cannot write ${folder}: it is a folder; give a file name`);
+    expect(readdirSync(folder)).toEqual([]);
+    const nowhere = join(folder, 'missing', 'out.json');
+    const noFolder = await cli('analyze', capture, '--json', nowhere);
+    expect(noFolder.code).toBe(1);
+    expect(noFolder.stderr.trim()).toBe(`statorscope: cannot write ${nowhere}: its folder does not exist`);
+  });
+
   it('refuses to write over the capture file', async () => {
     const path = join(dir, 'keep.csv');
     const original = readFileSync(join(SAMPLES, 'bench-resolver-dividing-head.csv'));
