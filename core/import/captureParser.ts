@@ -3,7 +3,7 @@ import type { Capture, CaptureChannel } from '../model/capture.js';
 import { CaptureError } from '../model/errors.js';
 import { finding, type Finding } from '../model/findings.js';
 import { LineFindingCollector } from './collectLineFindings.js';
-import { mergeBodyPart, type BodyPart, type BodyPartPlan } from './parseBodyPart.js';
+import { mergeBodyPart, type BodyPart, type BodyPartPlacement, type BodyPartPlan } from './parseBodyPart.js';
 import { COLUMN_CHANNEL, COLUMN_IGNORED, COLUMN_TIME, NumericBodyParser, type BodyPlan } from './parseNumericBody.js';
 import { SNIFF_BYTES, sniffCaptureLayout, type SniffedLayout } from './sniffCaptureLayout.js';
 import { TimebaseTracker } from './trackTimebase.js';
@@ -160,6 +160,10 @@ class StreamingCaptureParser implements SplittableCaptureParser {
   /** Set by the first appendPart(): no more bytes of the head may be pushed. */
   private appending = false;
   private bodyPlan: BodyPlan | undefined;
+  /** The room given to a part parsed apart (see placePart); null when there is none. */
+  private placement: BodyPartPlacement | null | undefined;
+  /** Mean bytes per row of the first chunk (expectedRows), 0 when not measured. */
+  private bytesPerRow = 0;
   private dataBytes = 0;
   private lastPushedByte = -1;
 
@@ -202,29 +206,58 @@ class StreamingCaptureParser implements SplittableCaptureParser {
 
   bodyPartPlan(partBytes: number): BodyPartPlan | undefined {
     if (!(Number.isFinite(partBytes) && partBytes >= 0)) throw new RangeError(`partBytes must be a non-negative finite number, not ${partBytes}`);
-    const s = this.sniffed;
-    const body = this.body;
-    const plan = this.bodyPlan;
-    if (this.finished || this.error !== undefined || s === undefined || body === undefined || plan === undefined) return undefined;
-    if (this.encoding !== 'utf-8' || s.lineEnding === 'cr' || body.limitLine > 0) return undefined;
+    if (!this.splittable()) return undefined;
+    const plan = this.bodyPlan!;
     // Rows to presize: the head's estimate for the whole body, in proportion to the part's bytes.
     const expectedRows = plan.expectedRows > 0 && this.dataBytes > 0 ? Math.ceil((plan.expectedRows * partBytes) / this.dataBytes) + 64 : 0;
+    this.placement ??= this.placePart(partBytes);
     return {
       body: { ...plan, firstLine: 1, expectedRows: Math.min(expectedRows, plan.maxSamples) },
       timeStamps: this.timebase !== undefined,
       perCodeLimit: this.findings.perCodeLimit,
+      ...(this.placement !== null ? { placement: this.placement } : {}),
     };
+  }
+
+  private splittable(): boolean {
+    const s = this.sniffed;
+    const body = this.body;
+    if (this.finished || this.error !== undefined || s === undefined || body === undefined || this.bodyPlan === undefined) return false;
+    return this.encoding === 'utf-8' && s.lineEnding !== 'cr' && body.limitLine === 0;
+  }
+
+  /**
+   * Room for a part of `partBytes` bytes at the end of the head's columns, when they lie in
+   * shared memory (ImportOptions.allocateSamples) and were sized from the file's size: the
+   * columns' slack beyond the estimated rows of head and part is split between the two, the head
+   * is fenced where the part's room begins, and the part parses into the rest (null: no room).
+   */
+  private placePart(partBytes: number): BodyPartPlacement | null {
+    const body = this.body!;
+    const plan = this.bodyPlan!;
+    const channels = body.columns.filter((c, k) => plan.kinds[k] === COLUMN_CHANNEL);
+    if (!(this.dataBytes > 0 && partBytes > 0 && partBytes < this.dataBytes && plan.expectedRows > 0)) return null;
+    if (!channels.every((c) => typeof SharedArrayBuffer !== 'undefined' && c.buffer instanceof SharedArrayBuffer && c.length === channels[0]!.length)) return null;
+    const capacity = channels[0]!.length;
+    const bytesPerRow = this.bytesPerRow;
+    if (!(bytesPerRow > 0)) return null;
+    const headRows = (this.dataBytes - partBytes) / bytesPerRow;
+    const slack = capacity - this.dataBytes / bytesPerRow;
+    const firstRow = Math.ceil(headRows + slack / 2);
+    if (!(slack > 0 && firstRow > body.rows && firstRow < capacity)) return null;
+    body.fence(firstRow);
+    return { firstRow, columns: body.columns.map((c, k) => (plan.kinds[k] === COLUMN_CHANNEL ? c.subarray(firstRow) : undefined)) };
   }
 
   appendPart(part: BodyPart): boolean {
     if (this.finished) throw new RangeError('appendPart() called after the parser finished');
     const body = this.body;
     if (!this.appending) {
-      if (this.bodyPartPlan(0) === undefined) throw new RangeError('appendPart() needs a parser that gave a body part plan');
+      if (!this.splittable()) throw new RangeError('appendPart() needs a parser that gave a body part plan');
       if (this.lastPushedByte !== 10 || this.feeder!.pendingBytes > 0) throw new RangeError('appendPart() needs the bytes pushed to end with a line feed');
       this.appending = true;
     }
-    if (!mergeBodyPart(body!, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples)) {
+    if (!mergeBodyPart(body!, this.timebase, this.findings, part, this.bodyPlan!.timeFactorS, this.bodyPlan!.maxSamples, this.placement ?? undefined)) {
       this.finished = true;
       return false;
     }
@@ -340,6 +373,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     }
     if (lines < 8) return Math.min(announced, 1 << 20);
     const bytesPerRow = (last - s.dataOffset) / lines;
+    this.bytesPerRow = bytesPerRow;
     const estimate = Math.ceil(((hint - s.dataOffset) / bytesPerRow) * 1.12) + 64;
     return announced > 0 ? Math.min(announced, estimate) : estimate;
   }

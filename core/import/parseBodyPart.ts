@@ -14,6 +14,20 @@ export interface BodyPartPlan {
   readonly timeStamps: boolean;
   /** Findings listed per code (LineFindingCollector.perCodeLimit of the head). */
   readonly perCodeLimit: number;
+  /** Where the part's rows go, when the head's columns have room for them (see BodyPartPlacement). */
+  readonly placement?: BodyPartPlacement;
+}
+
+/**
+ * Room in the head's own columns (memory shared between threads) for the rows of a part: views
+ * from row `firstRow` to the end of each channel column, past the row where the head stops
+ * filling them (NumericBodyParser.fence). A part parses into them instead of columns of its
+ * own, so that merging it moves rows within the columns (or not at all) instead of copying.
+ */
+export interface BodyPartPlacement {
+  readonly firstRow: number;
+  /** One entry per file column: a view for each channel column, undefined otherwise. */
+  readonly columns: readonly (Float32Array | undefined)[];
 }
 
 /**
@@ -26,8 +40,13 @@ export interface BodyPart {
   readonly rows: number;
   /** Next local line after the part (1 + the physical lines it holds). */
   readonly nextLine: number;
-  /** One entry per file column: the samples of a channel column, undefined otherwise. */
+  /**
+   * One entry per file column: the samples of a channel column, undefined otherwise (all
+   * undefined when the rows lie in the plan's placement, see placedAt).
+   */
   readonly columns: (Float32Array | undefined)[];
+  /** Row of the head's columns where the part's rows lie, when parsed into the placement. */
+  readonly placedAt?: number;
   /** Per row: time stamp in seconds (NaN when not a number) and power of ten of its last digit. */
   readonly timeS: Float64Array | undefined;
   /** Clamped to the int16 range, which changes nothing: powerOfTen() saturates beyond ±324. */
@@ -105,6 +124,10 @@ export class BodyPartParser {
   private readonly kinds: Uint8Array;
   private readonly feeder: LineRegionFeeder;
   private finished = false;
+  /** Rows of the placement filled by earlier slices; -1 once a slice outgrew it (none after). */
+  private placedRows = 0;
+  /** The placement views the current slice started with (undefined: its own columns). */
+  private given: readonly (Float32Array | undefined)[] | undefined;
 
   /** `sliceRows`: expected rows per slice when the part is taken in slices (see takeSlice). */
   constructor(plan: BodyPartPlan, sliceRows?: number) {
@@ -120,7 +143,10 @@ export class BodyPartParser {
     const plan = this.plan;
     this.held = { limit: plan.perCodeLimit, events: [], counts: {} };
     this.recorder = plan.timeStamps ? new TimeStampRecorder(expectedRows) : undefined;
-    this.body = new NumericBodyParser({ ...plan.body, expectedRows }, new LineFindingCollector(plan.perCodeLimit), this.recorder, this.held);
+    const place = plan.placement;
+    const room = place === undefined || this.placedRows < 0 ? 0 : Math.min(...place.columns.map((c) => (c === undefined ? Infinity : c.length))) - this.placedRows;
+    this.given = room > 0 ? place!.columns.map((c) => c?.subarray(this.placedRows)) : undefined;
+    this.body = new NumericBodyParser({ ...plan.body, expectedRows }, new LineFindingCollector(plan.perCodeLimit), this.recorder, this.held, undefined, this.given);
   }
 
   push(chunk: Uint8Array): void {
@@ -154,12 +180,18 @@ export class BodyPartParser {
   private snapshot(): BodyPart {
     const b = this.body;
     const rows = b.rows;
-    const columns = b.columns.map((c, k) => (this.kinds[k] === COLUMN_CHANNEL ? c.subarray(0, rows) : undefined));
+    // Still in the placement when no channel column had to grow out of it.
+    const given = this.given;
+    const placed = given !== undefined && b.columns.every((c, k) => this.kinds[k] !== COLUMN_CHANNEL || c === given[k]);
+    const placedAt = placed ? this.plan.placement!.firstRow + this.placedRows : undefined;
+    if (given !== undefined) this.placedRows = placed ? this.placedRows + rows : -1;
+    const columns = b.columns.map((c, k) => (this.kinds[k] === COLUMN_CHANNEL && !placed ? c.subarray(0, rows) : undefined));
     const r = this.recorder;
     return {
       rows,
       nextLine: b.line,
       columns,
+      ...(placedAt !== undefined ? { placedAt } : {}),
       timeS: r?.timeS.subarray(0, r.count),
       timeExponent: r?.exponent.subarray(0, r.count),
       lineMarks: r ? r.marks.slice(0, r.markCount) : new Int32Array(0),
@@ -186,8 +218,17 @@ const NOUN: Record<string, string> = {
  * are added to `findings`. Returns false, changing nothing, when the part cannot be merged (it
  * passed the row limit, or head and part together would): the caller then parses in one pass.
  */
-export function mergeBodyPart(body: NumericBodyParser, timebase: TimebaseTracker | undefined, findings: LineFindingCollector, part: BodyPart, factorS: number, maxSamples: number): boolean {
+export function mergeBodyPart(
+  body: NumericBodyParser,
+  timebase: TimebaseTracker | undefined,
+  findings: LineFindingCollector,
+  part: BodyPart,
+  factorS: number,
+  maxSamples: number,
+  placement?: BodyPartPlacement,
+): boolean {
   if (part.limited || body.limitLine > 0 || body.rows + part.rows > maxSamples) return false;
+  if (part.placedAt !== undefined && placement === undefined) throw new RangeError('the part lies in a placement the head did not give');
   if ((timebase !== undefined) !== (part.timeS !== undefined)) throw new RangeError('the part and the head disagree on the time column');
   const rowShift = body.rows;
   const lineShift = body.line - 1;
@@ -233,7 +274,9 @@ export function mergeBodyPart(body: NumericBodyParser, timebase: TimebaseTracker
     // Past the cap only the count changes (the code was listed above, so its entry exists).
     for (let k = 0; k < more; k++) findings.add(code, 'warning', { line: 1 }, NOUN[code] ?? code, () => ({ message: '' }));
   }
-  body.appendRows(part.columns, part.rows, part.nextLine + lineShift);
+  // A placed part's rows, seen through the head's own views of the placement.
+  const from = part.placedAt === undefined ? part.columns : placement!.columns.map((c) => c?.subarray(part.placedAt! - placement!.firstRow, part.placedAt! - placement!.firstRow + part.rows));
+  body.appendRows(from, part.rows, part.nextLine + lineShift);
   body.nonNumericCells = counters.nonNumericCells;
   body.overrangeCells = counters.overrangeCells;
   body.emptyCells = counters.emptyCells;

@@ -94,21 +94,50 @@ export class NumericBodyParser {
 
   /**
    * With `held`, per-line reports are kept there (see BodyEvent) instead of going to `findings`;
-   * `allocate` makes the sample columns (default: new Float32Array).
+   * `allocate` makes the sample columns (default: new Float32Array). `given`: columns to parse
+   * into first (one per file column, the channel ones of equal length, e.g. views of memory
+   * shared with another thread), instead of allocating them; they are left when they fill up.
    */
-  constructor(plan: BodyPlan, findings: LineFindingCollector, timebase: TimeStampSink | undefined, held?: HeldBodyEvents, allocate?: (length: number) => Float32Array) {
+  constructor(
+    plan: BodyPlan,
+    findings: LineFindingCollector,
+    timebase: TimeStampSink | undefined,
+    held?: HeldBodyEvents,
+    allocate?: (length: number) => Float32Array,
+    given?: readonly (Float32Array | undefined)[],
+  ) {
     this.plan = plan;
     this.allocate = allocate ?? ((length) => new Float32Array(length));
     this.findings = findings;
     this.timebase = timebase;
     this.held = held;
-    const initial = Math.min(Math.max(16, Math.min(plan.expectedRows > 0 ? plan.expectedRows : 4096, 1 << 28)), plan.maxSamples);
-    this.capacity = initial;
     this.columns = [];
-    for (let k = 0; k < plan.columnCount; k++) {
-      this.columns.push(plan.kinds[k] === COLUMN_CHANNEL ? this.allocate(initial) : EMPTY_F32);
+    if (given !== undefined) {
+      let capacity = Infinity;
+      for (let k = 0; k < plan.columnCount; k++) {
+        const c = plan.kinds[k] === COLUMN_CHANNEL ? given[k] : EMPTY_F32;
+        if (c === undefined) throw new RangeError(`no column given for channel column ${k + 1}`);
+        if (c !== EMPTY_F32) capacity = Math.min(capacity, c.length);
+        this.columns.push(c);
+      }
+      this.capacity = Math.min(capacity, plan.maxSamples);
+    } else {
+      const initial = Math.min(Math.max(16, Math.min(plan.expectedRows > 0 ? plan.expectedRows : 4096, 1 << 28)), plan.maxSamples);
+      this.capacity = initial;
+      for (let k = 0; k < plan.columnCount; k++) {
+        this.columns.push(plan.kinds[k] === COLUMN_CHANNEL ? this.allocate(initial) : EMPTY_F32);
+      }
     }
     this.line = plan.firstLine;
+  }
+
+  /**
+   * Stops filling the columns at `rows` (at least the rows read, at most the capacity): rows
+   * beyond go to grown columns, so that another thread may write the memory past it.
+   */
+  fence(rows: number): void {
+    if (!(Number.isInteger(rows) && rows >= this.rows && rows <= this.capacity)) throw new RangeError(`cannot fence the columns at row ${rows}`);
+    this.capacity = rows;
   }
 
   private grow(): boolean {
@@ -118,7 +147,8 @@ export class NumericBodyParser {
       const old = this.columns[k];
       if (old.length === 0) continue;
       const grown = this.allocate(next);
-      grown.set(old);
+      // Called when the rows reach the capacity (which a fence may have set below the length).
+      grown.set(old.subarray(0, this.capacity));
       this.columns[k] = grown;
     }
     this.capacity = next;
@@ -509,26 +539,36 @@ export class NumericBodyParser {
   /**
    * Appends `rows` rows parsed apart (one column per file column, the channel ones filled) after
    * the rows read so far; `nextLine` is the next physical line after them. Only between regions
-   * that end at a line break.
+   * that end at a line break. Rows that lie in the columns' own memory past a fence (parsed
+   * there by another thread) are moved down within it instead of copied in.
    */
   appendRows(columns: readonly (Float32Array | undefined)[], rows: number, nextLine: number): void {
     if (!(Number.isInteger(rows) && rows >= 0)) throw new RangeError(`rows must be a non-negative integer, not ${rows}`);
     const need = this.rows + rows;
     if (need > this.capacity) {
-      for (let k = 0; k < this.columns.length; k++) {
-        const old = this.columns[k];
-        if (old.length === 0) continue;
-        const grown = this.allocate(need);
-        grown.set(old.subarray(0, this.rows));
-        this.columns[k] = grown;
+      let room = Infinity;
+      for (const c of this.columns) if (c.length > 0) room = Math.min(room, c.length);
+      if (need <= room) this.capacity = room;
+      else {
+        for (let k = 0; k < this.columns.length; k++) {
+          const old = this.columns[k];
+          if (old.length === 0) continue;
+          const grown = this.allocate(need);
+          grown.set(old.subarray(0, this.rows));
+          this.columns[k] = grown;
+        }
+        this.capacity = need;
       }
-      this.capacity = need;
     }
     for (let k = 0; k < this.columns.length; k++) {
       if (this.plan.kinds[k] !== COLUMN_CHANNEL) continue;
       const from = columns[k];
       if (from === undefined || from.length < rows) throw new RangeError(`column ${k + 1} of the appended rows holds fewer than ${rows} values`);
-      this.columns[k].set(from.subarray(0, rows), this.rows);
+      const to = this.columns[k];
+      if (from.buffer === to.buffer) {
+        const at = (from.byteOffset - to.byteOffset) / Float32Array.BYTES_PER_ELEMENT;
+        if (at !== this.rows) to.copyWithin(this.rows, at, at + rows);
+      } else to.set(from.subarray(0, rows), this.rows);
     }
     this.rows = need;
     this.line = nextLine;
