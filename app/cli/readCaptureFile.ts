@@ -4,20 +4,24 @@ import { join } from 'node:path';
 import { isMainThread, Worker } from 'node:worker_threads';
 import { createSplittableCaptureParser, type ImportOptions, type ImportResult } from '../../core/import/captureParser.js';
 import type { BodyPart, BodyPartPlan } from '../../core/import/parseBodyPart.js';
-import type { ParseJob, ParseReply } from './parseWorker.js';
-
-const CHUNK_BYTES = 1 << 20;
+import { CHUNK_BYTES, parseFileRange, type ParseJob } from './parseFileRange.js';
+import type { ParseReply } from './parseWorker.js';
+import { createRangeClaim, MAX_CLAIM_CHUNKS, takeTail, unclaimedChunks } from './rangeClaim.js';
 
 /** Files at least this large are parsed on two threads (below it a worker costs more than it saves). */
 export const SPLIT_MIN_BYTES = 32 * 1024 * 1024;
 
 /**
- * Share of the file's bytes this thread parses: besides its part it merges the worker's slices
- * (time stamps through the time-base fit, rows copied in, about 0.15 s on a 10^7-row capture),
- * while the worker starts late (about 0.05 s) and parses a little slower. Measured on a shared
- * two-core machine, no source: 0.45-0.5 within run-to-run noise.
+ * Share of the file's bytes this thread parses first. Which thread finishes first swings by
+ * ±0.3 s from run to run on a shared two-core machine (measured, no source), so the split is
+ * evened out as it runs: this thread, once its part is parsed and the worker's slices so far
+ * merged, takes over the second half of what the worker has not read yet (rangeClaim.ts). A
+ * share a little under half makes this thread the one that is done first.
  */
-const HEAD_SHARE = 0.5;
+const HEAD_SHARE = 0.45;
+
+/** Fewest unread chunks of the worker's range worth taking over (the rest is left to it). */
+const MIN_TAKEN_CHUNKS = 8;
 
 /**
  * Bytes of the worker's range per slice it answers with: this thread merges each slice (time
@@ -39,10 +43,17 @@ export interface SplitOptions {
   readonly splitAt?: number;
   /** Bytes per slice of the worker's answer (default SLICE_BYTES): for tests. */
   readonly sliceBytes?: number;
+  /** Bytes per read of the worker and of a tail taken over (default CHUNK_BYTES): for tests. */
+  readonly chunkBytes?: number;
+  /**
+   * Take over the worker's range from this byte offset (moved to the next chunk boundary of the
+   * range) as soon as the worker has its job, instead of once the head is parsed: for tests.
+   */
+  readonly takeTailAt?: number;
   /** The bundled worker (default: parseWorker.js next to the running script). */
   readonly workerScript?: string;
   /** Called with what happened, for tests and benches. */
-  readonly onSplit?: (how: 'single' | 'split' | 'worker-failed' | 'merge-refused') => void;
+  readonly onSplit?: (how: 'single' | 'split' | 'worker-failed' | 'merge-refused' | 'tail-taken') => void;
   /**
    * Called once, when a split read has parsed its head and starts merging the worker's slices:
    * the moment a helper for the analysis may start without slowing the two-thread parse.
@@ -82,12 +93,15 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
         stream = streamParts(worker);
       } catch (error) {
         const failure = error instanceof Error ? error : new Error(String(error));
-        stream = { start: () => undefined, next: () => Promise.reject(failure) };
+        stream = { start: () => undefined, ready: () => true, next: () => Promise.reject(failure) };
       }
     }
     let limit = size;
     let position = 0;
     let parts: PartStream | undefined;
+    let job: ParseJob | undefined;
+    // The tail of the worker's range parsed here (see HEAD_SHARE), merged after its last slice.
+    let tail: Promise<BodyPart | undefined> | undefined;
     const buffers = [new Uint8Array(CHUNK_BYTES), new Uint8Array(CHUNK_BYTES)];
     let which = 0;
     const next = (b: Uint8Array): Promise<{ bytesRead: number; buffer: Uint8Array }> => {
@@ -114,7 +128,21 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
         if (at !== undefined && plan !== undefined) {
           limit = at;
           parts = stream!;
-          parts.start({ path, start: at, end: size, plan, sliceBytes: split.sliceBytes ?? SLICE_BYTES });
+          const chunkBytes = split.chunkBytes ?? CHUNK_BYTES;
+          const chunks = Math.ceil((size - at) / chunkBytes);
+          job = {
+            path,
+            start: at,
+            end: size,
+            plan,
+            sliceBytes: split.sliceBytes ?? SLICE_BYTES,
+            chunkBytes,
+            ...(chunks <= MAX_CLAIM_CHUNKS ? { claim: createRangeClaim(chunks) } : {}),
+          };
+          // A forced take-over (tests) is claimed before the worker can read there.
+          const forced = split.takeTailAt === undefined ? undefined : await takeOver(handle, job, Math.ceil((split.takeTailAt - at) / chunkBytes));
+          parts.start(job);
+          if (forced !== undefined) tail = Promise.resolve(await forced());
         }
         pending = next(buffers[which]!);
       }
@@ -129,6 +157,14 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
     let refused = false;
     try {
       for (;;) {
+        // Nothing to merge and the worker still reading: take over half of what it has left.
+        if (tail === undefined && !parts.ready() && job?.claim !== undefined) {
+          const left = unclaimedChunks(job.claim);
+          const parse = left >= MIN_TAKEN_CHUNKS ? await takeOver(handle, job, Math.ceil((job.end - job.start) / job.chunkBytes!) - Math.floor(left / 2)) : undefined;
+          tail = parse === undefined ? Promise.resolve(undefined) : parse();
+          // Parsed before the worker's slices are merged on: they wait in its queue.
+          await tail;
+        }
         const { part, last } = await parts.next();
         if (!parser.appendPart(part)) {
           refused = true;
@@ -136,6 +172,11 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
         }
         appended++;
         if (last) break;
+      }
+      const taken = await tail;
+      if (!refused && taken !== undefined) {
+        split.onSplit?.('tail-taken');
+        if (!parser.appendPart(taken)) refused = true;
       }
     } catch {
       split.onSplit?.('worker-failed');
@@ -173,22 +214,43 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
 async function splitOffset(handle: FileHandle, size: number, readSoFar: number, target: number): Promise<number | undefined> {
   const from = Math.max(target, readSoFar);
   if (from >= size) return undefined;
+  const at = await lineStartFrom(handle, size, from);
+  return at !== undefined && at < size && at > readSoFar ? at : undefined;
+}
+
+/** The first line start at or after `from` (> 0), within SPLIT_WINDOW_BYTES; `size` when the file ends first. */
+async function lineStartFrom(handle: FileHandle, size: number, from: number): Promise<number | undefined> {
   const window = new Uint8Array(Math.min(SPLIT_WINDOW_BYTES, size - from + 1));
   // One byte before `from`: an LF there makes `from` itself a line start.
   const { bytesRead } = await handle.read(window, 0, window.length, from - 1);
-  for (let i = 0; i < bytesRead; i++) {
-    if (window[i] === 10) {
-      const at = from + i;
-      return at < size && at > readSoFar ? at : undefined;
-    }
-  }
-  return undefined;
+  for (let i = 0; i < bytesRead; i++) if (window[i] === 10) return from + i;
+  return bytesRead === size - from + 1 ? size : undefined;
+}
+
+/**
+ * Takes over the worker's range from chunk `fromChunk` on, from the first line start in that
+ * chunk, and gives the parse of it (a body part without the placement: the worker writes
+ * there); undefined when the worker has read that far already, the range ends first, or no line
+ * starts near there.
+ */
+async function takeOver(handle: FileHandle, job: ParseJob, fromChunk: number): Promise<(() => Promise<BodyPart>) | undefined> {
+  const chunkBytes = job.chunkBytes!;
+  const boundary = job.start + fromChunk * chunkBytes;
+  if (job.claim === undefined || fromChunk < 1 || boundary >= job.end) return undefined;
+  const lineStart = await lineStartFrom(handle, job.end, boundary);
+  if (lineStart === undefined || lineStart - boundary >= chunkBytes || !takeTail(job.claim, fromChunk, lineStart - boundary)) return undefined;
+  const { placement: _placement, ...plan } = job.plan;
+  // Columns sized for the tail's share of the rows the whole range was expected to hold.
+  const expectedRows = Math.ceil((plan.body.expectedRows * (job.end - lineStart)) / (job.end - job.start)) + 1024;
+  return () => parseFileRange({ path: job.path, start: lineStart, end: job.end, plan: { ...plan, body: { ...plan.body, expectedRows } }, chunkBytes });
 }
 
 /** The worker's answers in order: each next() gives the next slice, or throws once it failed. */
 interface PartStream {
   /** Sends the worker its job. */
   start(job: ParseJob): void;
+  /** True when a slice (or a failure) is waiting for next(). */
+  ready(): boolean;
   next(): Promise<{ part: BodyPart; last: boolean }>;
 }
 
@@ -221,6 +283,7 @@ function streamParts(worker: Worker): PartStream {
     start(job) {
       worker.postMessage(job satisfies ParseJob);
     },
+    ready: () => ready.length > 0 || failure !== undefined,
     async next() {
       for (;;) {
         const first = ready.shift();

@@ -1,5 +1,5 @@
 import { execFile } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { promisify } from 'node:util';
@@ -14,6 +14,7 @@ import { createRandom } from '../../core/synth/random.js';
 // that (common practice, no source).
 
 const WORKER = resolve('dist/cli/parseWorker.js');
+const sharedColumn = (length: number): Float32Array => new Float32Array(new SharedArrayBuffer(length * 4));
 const dir = mkdtempSync(join(tmpdir(), 'statorscope-split-'));
 
 beforeAll(async () => {
@@ -97,7 +98,8 @@ describe('readCaptureFile on two threads', () => {
     });
     const single = await readSplit(path, { minBytes: Infinity });
     const sliced = await readSplit(path, { splitAt: 1000, sliceBytes: 1 });
-    expect(sliced.how).toEqual(['head-parsed', 'split']);
+    // This thread, done with its head at once, may take over the tail of the worker's range.
+    expect(sliced.how.filter((h) => h !== 'tail-taken')).toEqual(['head-parsed', 'split']);
     expectSame(sliced.result, single.result);
     // A worker that stops after its third answer (so at least two slices came before the end).
     const quitting = join(dir, 'quittingWorker.js');
@@ -111,6 +113,26 @@ describe('readCaptureFile on two threads', () => {
     const quit = await readSplit(path, { splitAt: 1000, sliceBytes: 1, workerScript: quitting });
     expect(quit.how).toEqual(['head-parsed', 'worker-failed']);
     expectSame(quit.result, single.result);
+  }, 60_000);
+
+  it('takes over the tail of the worker\'s range and merges it after the worker\'s part, for any cut (in and across lines, in the last chunk), with the placement and without', async () => {
+    const path = writeCapture('taken.csv', CSV_LAYOUTS.plain, 60000, 17, defects);
+    const single = await readSplit(path, { minBytes: Infinity });
+    const { size } = statSync(path);
+    const rnd = createRandom(23);
+    for (const [k, chunkBytes] of [4096, 7777, 65536].entries()) {
+      const splitAt = Math.floor(size * (0.2 + 0.1 * k));
+      for (const cut of [splitAt + 3 * chunkBytes, splitAt + Math.floor(rnd.uniform() * (size - splitAt)), size - 10]) {
+        for (const shared of [false, true]) {
+          const how: string[] = [];
+          const result = await readCaptureFile(path, shared ? { allocateSamples: sharedColumn } : {}, {
+            workerScript: WORKER, splitAt, chunkBytes, sliceBytes: 3 * chunkBytes, takeTailAt: cut, onSplit: (h) => how.push(h),
+          });
+          expect(how, `chunk ${chunkBytes}, cut at ${cut}`).toEqual(['tail-taken', 'split']);
+          expectSame(result, single.result);
+        }
+      }
+    }
   }, 60_000);
 
   it('falls back to one thread: small file, unusable split point, failing worker, row limit', async () => {
