@@ -20,6 +20,12 @@ export const SPLIT_MIN_BYTES = 32 * 1024 * 1024;
  */
 const HEAD_SHARE = 0.45;
 
+/**
+ * ImportOptions.presizeSlack of a split read over shared columns: the head's rows may pass the
+ * first chunk's estimate by 10 % (see expectedRows), and each part needs its own margin.
+ */
+const SPLIT_PRESIZE_SLACK = 0.4;
+
 /** Fewest unread chunks of the worker's range worth taking over (the rest is left to it). */
 const MIN_TAKEN_CHUNKS = 8;
 
@@ -83,7 +89,9 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
     const { size } = await handle.stat();
     const forced = split.splitAt !== undefined;
     const wanted = forced || (size >= (split.minBytes ?? SPLIT_MIN_BYTES) && isMainThread && availableParallelism() >= 2);
-    const parser = createSplittableCaptureParser({ sizeHintBytes: size, ...options });
+    // A split over shared columns sizes them with room to spare for both parts (see placePart).
+    const slack = wanted && options.allocateSamples !== undefined && options.presizeSlack === undefined ? { presizeSlack: SPLIT_PRESIZE_SLACK } : {};
+    const parser = createSplittableCaptureParser({ sizeHintBytes: size, ...slack, ...options });
     // The worker starts now, so that its start-up overlaps the first read and the sniffing; its
     // answers are listened for from the start (an early failure is kept for next()).
     let stream: PartStream | undefined;

@@ -29,6 +29,13 @@ export interface ImportOptions {
    * so that other threads can read the capture without a copy. Default: new Float32Array(length).
    */
   allocateSamples?: (length: number) => Float32Array;
+  /**
+   * Rows added to the size-hint estimate when the columns are sized, as a fraction (default
+   * 0.12). A read that will split the body between threads over allocateSamples memory asks
+   * for more, so that head and part each find room in the one set of columns (pages never
+   * written take no memory); such columns are then kept as they are, not copied to size.
+   */
+  presizeSlack?: number;
 }
 
 export interface CaptureLayout {
@@ -98,6 +105,9 @@ export function createSplittableCaptureParser(options: ImportOptions = {}): Spli
   return new StreamingCaptureParser(options);
 }
 
+/** Default ImportOptions.presizeSlack. */
+const PRESIZE_SLACK = 0.12;
+
 /** Relative disagreement between a preamble interval and the time column worth a finding. */
 const INTERVAL_MISMATCH = 1e-3;
 
@@ -136,6 +146,9 @@ function checkOptions(o: ImportOptions): void {
     throw new RangeError(`options.maxSamples must be a positive integer, not ${o.maxSamples}`);
   }
   if (o.allocateSamples !== undefined && typeof o.allocateSamples !== 'function') throw new TypeError('options.allocateSamples must be a function');
+  if (o.presizeSlack !== undefined && !(Number.isFinite(o.presizeSlack) && o.presizeSlack >= 0 && o.presizeSlack <= 4)) {
+    throw new RangeError(`options.presizeSlack must be a fraction from 0 to 4, not ${o.presizeSlack}`);
+  }
   if (o.sizeHintBytes !== undefined && !(Number.isFinite(o.sizeHintBytes) && o.sizeHintBytes >= 0)) {
     throw new RangeError(`options.sizeHintBytes must be a non-negative finite number, not ${o.sizeHintBytes}`);
   }
@@ -353,8 +366,9 @@ class StreamingCaptureParser implements SplittableCaptureParser {
 
   /**
    * Rows to allocate up front. With a size hint: the data bytes left divided by the mean bytes
-   * per row of the first chunk, plus 12 % (rows vary in length with signs and digits: on a
-   * 10^7-row capture the first MiB under-estimated the rows by 3 %). Without
+   * per row of the first chunk, plus presizeSlack (rows vary in length with signs and digits:
+   * on the bench's 10^7-row capture, whose time stamps print shorter after the first second,
+   * the first 64 KiB under-estimate the rows by about 10 %, measured). Without
    * one: the preamble's record length, but at most 2^20 rows, so that a wrong preamble cannot
    * make the parser allocate more than the file needs before the first row is read.
    */
@@ -374,7 +388,7 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     if (lines < 8) return Math.min(announced, 1 << 20);
     const bytesPerRow = (last - s.dataOffset) / lines;
     this.bytesPerRow = bytesPerRow;
-    const estimate = Math.ceil(((hint - s.dataOffset) / bytesPerRow) * 1.12) + 64;
+    const estimate = Math.ceil(((hint - s.dataOffset) / bytesPerRow) * (1 + (this.options.presizeSlack ?? PRESIZE_SLACK))) + 64;
     return announced > 0 ? Math.min(announced, estimate) : estimate;
   }
 
@@ -457,7 +471,8 @@ class StreamingCaptureParser implements SplittableCaptureParser {
     const channels: CaptureChannel[] = channelColumns.map(({ c, k }) => {
       const column = body.columns[k];
       // A view when little is unused (a presized column), a copy otherwise (frees the rest).
-      const samples = column.length === rows ? column : rows >= 0.85 * column.length ? column.subarray(0, rows) : this.copyOf(column, rows);
+      const keepView = rows >= 0.85 * column.length || (this.placement != null && this.options.presizeSlack !== undefined);
+      const samples = column.length === rows ? column : keepView ? column.subarray(0, rows) : this.copyOf(column, rows);
       return { column: k, label: c.label, unit: c.unit, samples };
     });
     const capture: Capture = { sampleRateHz, startS, sampleCount: rows, channels };
