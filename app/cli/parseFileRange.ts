@@ -6,6 +6,7 @@
 import { open } from 'node:fs/promises';
 import { BodyPartParser, type BodyPart, type BodyPartPlan } from '../../core/import/parseBodyPart.js';
 import { claimChunk, claimEnd } from './rangeClaim.js';
+import { readInChunks, type ChunkRead } from './readInChunks.js';
 
 export interface ParseJob {
   readonly path: string;
@@ -40,13 +41,11 @@ export async function parseFileRange(job: ParseJob, onSlice?: (part: BodyPart) =
   const chunks = Math.ceil((job.end - job.start) / chunkBytes);
   const handle = await open(job.path, 'r');
   try {
-    const buffers = [new Uint8Array(chunkBytes), new Uint8Array(chunkBytes)];
     let own = 0;
     let position = job.start;
     let sliceStart = job.start;
-    let which = 0;
     // Chunks are read in order; with a claim, each is claimed as its read is issued.
-    const next = (b: Uint8Array): Promise<{ bytesRead: number; buffer: Uint8Array }> => {
+    const next: ChunkRead = (b) => {
       const chunk = job.claim !== undefined ? claimChunk(job.claim) : own < chunks ? own++ : -1;
       if (chunk < 0) return Promise.resolve({ bytesRead: 0, buffer: b });
       const at = job.start + chunk * chunkBytes;
@@ -54,13 +53,8 @@ export async function parseFileRange(job: ParseJob, onSlice?: (part: BodyPart) =
       position = at + length;
       return handle.read(b, 0, length, at);
     };
-    let pending = next(buffers[0]!);
-    for (;;) {
-      const { bytesRead, buffer } = await pending;
-      if (bytesRead === 0) break;
-      which ^= 1;
-      pending = next(buffers[which]!);
-      parser.push(buffer.subarray(0, bytesRead));
+    await readInChunks(next, [new Uint8Array(chunkBytes), new Uint8Array(chunkBytes)], (bytes) => {
+      parser.push(bytes);
       if (position - sliceStart >= sliceBytes && position < job.end) {
         const slice = parser.takeSlice();
         if (slice !== undefined) {
@@ -68,7 +62,7 @@ export async function parseFileRange(job: ParseJob, onSlice?: (part: BodyPart) =
           onSlice!(slice);
         }
       }
-    }
+    });
     if (job.claim !== undefined) {
       // The tail was taken: finish the last line, up to where the tail's first line starts.
       const cut = claimEnd(job.claim);

@@ -7,6 +7,7 @@ import type { BodyPart, BodyPartPlan } from '../../core/import/parseBodyPart.js'
 import { CHUNK_BYTES, parseFileRange, type ParseJob } from './parseFileRange.js';
 import type { ParseReply } from './parseWorker.js';
 import { createRangeClaim, MAX_CLAIM_CHUNKS, takeTail, unclaimedChunks } from './rangeClaim.js';
+import { readInChunks } from './readInChunks.js';
 
 /** Files at least this large are parsed on two threads (below it a worker costs more than it saves). */
 export const SPLIT_MIN_BYTES = 32 * 1024 * 1024;
@@ -191,16 +192,7 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
       if (appended > 0) return readCaptureFile(path, options, { ...split, splitAt: undefined, minBytes: Infinity, onSplit: undefined });
       // Nothing of the worker's merged: parse the second half here.
       limit = size;
-      which = 0;
-      pending = next(buffers[0]!);
-      for (;;) {
-        const { bytesRead, buffer } = await pending;
-        if (bytesRead === 0) break;
-        // The next read goes into the other buffer, never into the one parsed here.
-        which ^= 1;
-        pending = next(buffers[which]!);
-        parser.push(buffer.subarray(0, bytesRead));
-      }
+      await readInChunks(next, [buffers[0]!, buffers[1]!], (bytes) => parser.push(bytes));
       return parser.finish();
     }
     if (!refused) {

@@ -157,17 +157,21 @@ export class NumericBodyParser {
 
   private grow(): boolean {
     if (this.capacity >= this.plan.maxSamples) return false;
-    const next = Math.min(Math.ceil(this.capacity * (this.plan.growthFactor ?? 2)) + 16, this.plan.maxSamples);
+    // Called when the rows reach the capacity (which a fence may have set below the length).
+    this.resize(Math.min(Math.ceil(this.capacity * (this.plan.growthFactor ?? 2)) + 16, this.plan.maxSamples), this.capacity);
+    return true;
+  }
+
+  /** New channel columns of `length` samples holding the first `keep` of the old ones. */
+  private resize(length: number, keep: number): void {
     for (let k = 0; k < this.columns.length; k++) {
       const old = this.columns[k];
       if (old.length === 0) continue;
-      const grown = this.allocate(next);
-      // Called when the rows reach the capacity (which a fence may have set below the length).
-      grown.set(old.subarray(0, this.capacity));
+      const grown = this.allocate(length);
+      grown.set(old.subarray(0, keep));
       this.columns[k] = grown;
     }
-    this.capacity = next;
-    return true;
+    this.capacity = length;
   }
 
   /** True when the last region ended with a CR whose LF may begin the next one. */
@@ -580,16 +584,7 @@ export class NumericBodyParser {
       let room = Infinity;
       for (const c of this.columns) if (c.length > 0) room = Math.min(room, c.length);
       if (need <= room) this.capacity = room;
-      else {
-        for (let k = 0; k < this.columns.length; k++) {
-          const old = this.columns[k];
-          if (old.length === 0) continue;
-          const grown = this.allocate(need);
-          grown.set(old.subarray(0, this.rows));
-          this.columns[k] = grown;
-        }
-        this.capacity = need;
-      }
+      else this.resize(need, this.rows);
     }
     for (let k = 0; k < this.columns.length; k++) {
       if (this.plan.kinds[k] !== COLUMN_CHANNEL) continue;
