@@ -1,6 +1,6 @@
 import { availableParallelism } from 'node:os';
 import { basename } from 'node:path';
-import { isMainThread } from 'node:worker_threads';
+import { isMainThread, type Worker } from 'node:worker_threads';
 import { analysisToJson, analyzeCapture, CaptureError, type Analysis, type AnalyzeOptions, type Finding } from '../../core/index.js';
 import { captureMemoryLimitBytes, checkCaptureFits, estimateCaptureSize } from './captureMemory.js';
 import type { AnalyzeCommand } from './parseCliArgs.js';
@@ -28,21 +28,22 @@ export async function analyzeFile(path: string, displayName: string, options: An
   const fits = checkCaptureFits(displayName, estimate, captureMemoryLimitBytes(workers));
   if (!fits.ok) throw new FileCaptureError(fits.message);
   // A large capture read on the main thread with a second core: its samples go to shared memory
-  // and the demodulation is split over two threads. The worker starts once the two-thread parse
-  // has parsed its head (so as not to slow it), and boots while the parse worker's rows are
-  // merged; after a one-thread read it starts then, while the analysis finds the carrier.
+  // and the demodulation is split over two threads. After a two-thread parse the parse worker
+  // stays on as the helper (no second start-up); after a one-thread read a worker starts then,
+  // while the analysis finds the carrier.
   const shared = estimate.fileBytes >= SPLIT_MIN_BYTES && isMainThread && availableParallelism() >= 2;
   let helper: ParallelDemodulator | undefined;
-  const startHelper = (): void => {
-    helper ??= new ParallelDemodulator();
+  const keepParseWorker = (parseWorker: Worker): boolean => {
+    helper ??= new ParallelDemodulator(parseWorker);
+    return true;
   };
   try {
     const imported = await readCaptureFile(
       path,
       { maxSamples: fits.maxSamples, sizeHintBytes: estimate.fileBytes, ...(shared ? { allocateSamples: sharedSamples } : {}) },
-      shared ? { onHeadParsed: startHelper } : {},
+      shared ? { onHeadParsed: keepParseWorker } : {},
     );
-    if (shared) startHelper();
+    if (shared) helper ??= new ParallelDemodulator();
     const analysis = analyzeCapture(imported.capture, options, helper ? { demodulate: helper.demodulate, startExtremes: helper.startExtremes } : {});
     return { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
   } catch (error) {

@@ -27,7 +27,13 @@ export interface ExtremesJob {
   readonly flag: Int32Array;
 }
 
-export type HelperJob = DemodJob | ExtremesJob;
+/** Asks a worker that is already running (the parse worker) to say, through `alive`, that it takes jobs. */
+export interface ListenJob {
+  readonly kind: 'listen';
+  readonly alive: Int32Array;
+}
+
+export type HelperJob = DemodJob | ExtremesJob | ListenJob;
 
 export const EXTREMES_FIELDS = 5;
 

@@ -26,6 +26,7 @@ import {
   sharedFlag,
   type DemodJob,
   type ExtremesJob,
+  type ListenJob,
 } from './demodJob.js';
 
 /** Below this many cycles the hand-over costs more than half the work. Measured, no source. */
@@ -70,11 +71,24 @@ export class ParallelDemodulator {
   /** Jobs the worker did so far (demodulations split over both threads, extremes measured; for tests). */
   shared = 0;
 
-  constructor(workerScript = join(__dirname, 'demodWorker.js')) {
-    this.worker = new Worker(workerScript, { workerData: { alive: this.alive } });
+  /**
+   * `worker`: the script of a new worker (default: the bundled demodWorker.js), or a worker that
+   * runs already and takes helper jobs (the parse worker, once its range is parsed): it is asked
+   * to say that it listens, and is closed with this demodulator.
+   */
+  constructor(worker: string | Worker = join(__dirname, 'demodWorker.js')) {
+    if (typeof worker === 'string') {
+      this.worker = new Worker(worker, { workerData: { alive: this.alive } });
+      // An idle helper must not keep the process alive.
+      this.worker.unref();
+    } else {
+      // Left referenced: its owner may still be waiting for its messages (a read in progress);
+      // close() ends it.
+      this.worker = worker;
+      worker.postMessage({ kind: 'listen', alive: this.alive } satisfies ListenJob);
+    }
     this.worker.once('error', () => (this.broken = true));
     this.worker.once('exit', () => (this.broken = true));
-    this.worker.unref();
   }
 
   readonly demodulate: CycleDemodulator = (channels, track, sampleCount) => {

@@ -63,9 +63,11 @@ export interface SplitOptions {
   readonly onSplit?: (how: 'single' | 'split' | 'worker-failed' | 'merge-refused' | 'tail-taken') => void;
   /**
    * Called once, when a split read has parsed its head and starts merging the worker's slices:
-   * the moment a helper for the analysis may start without slowing the two-thread parse.
+   * the moment a helper for the analysis may start without slowing the two-thread parse. It is
+   * given the parse worker, which takes helper jobs once its range is parsed (runHelperJob);
+   * returning true keeps that worker running after the read (the callee closes it then).
    */
-  readonly onHeadParsed?: () => void;
+  readonly onHeadParsed?: (parseWorker: Worker) => boolean;
 }
 
 /**
@@ -86,6 +88,8 @@ export interface SplitOptions {
 export async function readCaptureFile(path: string, options: ImportOptions = {}, split: SplitOptions = {}): Promise<ImportResult> {
   const handle = await open(path, 'r');
   let worker: Worker | undefined;
+  /** The worker handed on as a helper (see onHeadParsed), not terminated here. */
+  let kept: Worker | undefined;
   try {
     const { size } = await handle.stat();
     const forced = split.splitAt !== undefined;
@@ -160,7 +164,7 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
       split.onSplit?.('single');
       return parser.finish();
     }
-    split.onHeadParsed?.();
+    if (worker !== undefined && split.onHeadParsed?.(worker) === true) kept = worker;
     // The worker's slices are merged as they come.
     let appended = 0;
     let refused = false;
@@ -202,7 +206,7 @@ export async function readCaptureFile(path: string, options: ImportOptions = {},
     split.onSplit?.('merge-refused');
     return readCaptureFile(path, options, { ...split, splitAt: undefined, minBytes: Infinity, onSplit: undefined });
   } finally {
-    if (worker !== undefined) void worker.terminate();
+    if (worker !== undefined && worker !== kept) void worker.terminate();
     await handle.close();
   }
 }

@@ -3,6 +3,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { promisify } from 'node:util';
+import { Worker } from 'node:worker_threads';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { ParallelDemodulator, sharedSamples } from '../../app/cli/parallelDemodulator.js';
 import { constantCarrierTrack } from '../../core/carrier/carrierTrack.js';
@@ -11,6 +12,7 @@ import { measureSampleExtremes } from '../../core/diagnostics/sampleExtremes.js'
 import { createRandom } from '../../core/synth/random.js';
 
 const WORKER = resolve('dist/cli/demodWorker.js');
+const PARSE_WORKER = resolve('dist/cli/parseWorker.js');
 
 beforeAll(async () => {
   await promisify(execFile)(process.execPath, ['app/build.mjs']);
@@ -84,6 +86,38 @@ describe('ParallelDemodulator', () => {
     } finally {
       await helper.close();
     }
+  }, 60_000);
+
+  it('takes a running parse worker as its helper (asked to listen), and gives demodulateCycles and measureSampleExtremes bit for bit (the oracles)', async () => {
+    const helper = new ParallelDemodulator(new Worker(PARSE_WORKER));
+    try {
+      await started(helper);
+      expect(helper.usable).toBe(true);
+      const { channels, track } = lines(400_000, true);
+      expect(helper.startExtremes(channels)()).toEqual(channels.map((c) => measureSampleExtremes(c, 0, c.length)));
+      expect(helper.demodulate(channels, track, 400_000)).toEqual(demodulateCycles(channels, track, 400_000));
+      expect(helper.shared).toBe(2);
+    } finally {
+      await helper.close();
+    }
+  }, 60_000);
+
+  it('leaves a worker it was given referenced: its owner may still be waiting for that worker\'s messages (a process left with only an unreferenced worker exits, per Node\'s worker_threads documentation)', async () => {
+    // In a process of its own: the owner listens first (as readCaptureFile does), the worker
+    // answers late, after the demodulator has taken it.
+    const script = [
+      "import { Worker } from 'node:worker_threads';",
+      "import { ParallelDemodulator } from './app/cli/parallelDemodulator.ts';",
+      "const worker = new Worker(\"setTimeout(() => require('node:worker_threads').parentPort.postMessage('late'), 300)\", { eval: true });",
+      'let helper;',
+      "worker.once('message', (m) => { console.log(m); void helper.close(); });",
+      'helper = new ParallelDemodulator(worker);',
+    ].join('\n');
+    const dir = mkdtempSync(join(tmpdir(), 'statorscope-ref-'));
+    const file = join(dir, 'lateWorker.ts');
+    writeFileSync(file, script.replace('./app/cli/parallelDemodulator.ts', resolve('app/cli/parallelDemodulator.ts')));
+    const { stdout } = await promisify(execFile)(resolve('node_modules/.bin/tsx'), [file]);
+    expect(stdout.trim()).toBe('late');
   }, 60_000);
 
   it('stays on this thread for samples outside shared memory, a short record or a worker that fails', async () => {

@@ -3,6 +3,7 @@ import { mkdtempSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { promisify } from 'node:util';
+import type { Worker } from 'node:worker_threads';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { readCaptureFile, type SplitOptions } from '../../app/cli/readCaptureFile.js';
 import type { ImportResult } from '../../core/import/captureParser.js';
@@ -56,7 +57,7 @@ function expectSame(got: ImportResult, want: ImportResult): void {
 
 async function readSplit(path: string, split: SplitOptions): Promise<{ result: ImportResult; how: string[] }> {
   const how: string[] = [];
-  const result = await readCaptureFile(path, {}, { workerScript: WORKER, ...split, onSplit: (h) => how.push(h), onHeadParsed: () => how.push('head-parsed') });
+  const result = await readCaptureFile(path, {}, { workerScript: WORKER, ...split, onSplit: (h) => how.push(h), onHeadParsed: () => { how.push('head-parsed'); return false; } });
   return { result, how };
 }
 
@@ -131,6 +132,29 @@ describe('readCaptureFile on two threads', () => {
           expect(how, `chunk ${chunkBytes}, cut at ${cut}`).toEqual(['tail-taken', 'split']);
           expectSame(result, single.result);
         }
+      }
+    }
+  }, 60_000);
+
+  it('hands the parse worker on when asked at the head (it then answers a helper job after the read) and terminates it otherwise', async () => {
+    const path = writeCapture('handed.csv', CSV_LAYOUTS.plain, 30000, 19);
+    const single = await readSplit(path, { minBytes: Infinity });
+    for (const keep of [true, false]) {
+      let handed: Worker | undefined;
+      const result = await readCaptureFile(path, {}, { workerScript: WORKER, splitAt: 300000, onHeadParsed: (w) => ((handed = w), keep) });
+      expectSame(result, single.result);
+      expect(handed).toBeDefined();
+      if (keep) {
+        // Answers through shared memory (DEMOD_DONE = 1) while it runs.
+        const alive = new Int32Array(new SharedArrayBuffer(4));
+        handed!.postMessage({ kind: 'listen', alive });
+        for (let k = 0; k < 200 && Atomics.load(alive, 0) !== 1; k++) await new Promise((r) => setTimeout(r, 10));
+        expect(Atomics.load(alive, 0)).toBe(1);
+        await handed!.terminate();
+      } else {
+        // threadId turns -1 once the worker no longer runs (Node's worker_threads documentation).
+        for (let k = 0; k < 200 && handed!.threadId !== -1; k++) await new Promise((r) => setTimeout(r, 10));
+        expect(handed!.threadId).toBe(-1);
       }
     }
   }, 60_000);
