@@ -1,12 +1,15 @@
 #!/usr/bin/env node
 import { version } from '../../package.json';
+import { exitWhenDone } from './exitWhenDone.js';
 import { runCli } from './runCli.js';
 
-void runCli(process.argv.slice(2), {
-  stdout: (text) => process.stdout.write(text),
-  stderr: (text) => process.stderr.write(text),
-  version,
-  stderrIsTty: process.stderr.isTTY === true,
-}).then((code) => {
-  process.exitCode = code;
-});
+const stderr = (text: string): boolean => process.stderr.write(text);
+exitWhenDone(
+  runCli(process.argv.slice(2), {
+    stdout: (text) => process.stdout.write(text),
+    stderr,
+    version,
+    stderrIsTty: process.stderr.isTTY === true,
+  }),
+  stderr,
+);
