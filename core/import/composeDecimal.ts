@@ -37,3 +37,11 @@ export function powerOfTen(exponent10: number): number {
   if (exponent10 >= 0) return exponent10 <= 308 ? POW10[exponent10] : Infinity;
   return -exponent10 <= 323 ? NEG_POW10[-exponent10] : 0;
 }
+
+/**
+ * A power-of-ten exponent clamped to the int16 range, for storing in an Int16Array (which would
+ * wrap it instead); clamping changes nothing, since powerOfTen() saturates beyond ±324.
+ */
+export function int16Exponent(exponent10: number): number {
+  return exponent10 > 32767 ? 32767 : exponent10 < -32768 ? -32768 : exponent10;
+}

@@ -1,3 +1,4 @@
+import { int16Exponent } from './composeDecimal.js';
 import { LineRegionFeeder } from './lineRegionFeeder.js';
 import { LineFindingCollector } from './collectLineFindings.js';
 import { COLUMN_CHANNEL, NumericBodyParser, type BodyEvent, type BodyPlan, type HeldBodyEvents, type TimeStampSink } from './parseNumericBody.js';
@@ -79,7 +80,7 @@ class TimeStampRecorder implements TimeStampSink {
     if (row !== this.count) throw new RangeError(`time stamps must arrive in row order (row ${row} after ${this.count} rows)`);
     if (row === this.timeS.length) this.grow(row + 1);
     this.timeS[row] = tS;
-    this.exponent[row] = lastDigitExponent > 32767 ? 32767 : lastDigitExponent < -32768 ? -32768 : lastDigitExponent;
+    this.exponent[row] = int16Exponent(lastDigitExponent);
     this.count = row + 1;
     this.noteLine(row, line);
   }

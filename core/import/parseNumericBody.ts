@@ -1,4 +1,4 @@
-import { composeDecimal } from './composeDecimal.js';
+import { composeDecimal, int16Exponent } from './composeDecimal.js';
 import { decodeUtf8 } from './decodeUtf8.js';
 import { OVERRANGE_MAGNITUDE, parseNumberText, unquoteCell } from './parseNumberText.js';
 import type { LineFindingCollector } from './collectLineFindings.js';
@@ -507,8 +507,7 @@ export class NumericBodyParser {
           p = q;
           if (timebase !== undefined) {
             stamps[n] = tValue * timeFactor;
-            // Clamped to int16, which changes nothing: powerOfTen() saturates beyond ±324.
-            exponents[n] = tExp > 32767 ? 32767 : tExp < -32768 ? -32768 : tExp;
+            exponents[n] = int16Exponent(tExp);
             if (++n === STAMP_RUN) {
               timebase.addRun(stamps, exponents, timeFactor, 0, n, runStart, runStart + lineShift);
               runStart = row + 1;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { composeDecimal, powerOfTen } from '../../../core/import/composeDecimal.js';
+import { composeDecimal, int16Exponent, powerOfTen } from '../../../core/import/composeDecimal.js';
 import { createRandom } from '../../../core/synth/random.js';
 
 /** Mantissa and exponent the way the byte parser forms them (digits accumulated in a double). */
@@ -45,5 +45,10 @@ describe('composeDecimal(mantissa, exponent10)', () => {
     expect(composeDecimal(1, -400)).toBe(0);
     expect(powerOfTen(-6)).toBe(1e-6);
     expect(powerOfTen(3)).toBe(1000);
+  });
+
+  it('int16Exponent clamps to the int16 range, where powerOfTen already saturates (IEEE 754 binary64 range, common practice)', () => {
+    expect([-40000, -32769, -32768, -7, 0, 32767, 99999].map(int16Exponent)).toEqual([-32768, -32768, -32768, -7, 0, 32767, 32767]);
+    for (const e of [-40000, 99999]) expect(powerOfTen(int16Exponent(e))).toBe(powerOfTen(e));
   });
 });
