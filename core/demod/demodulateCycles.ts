@@ -92,30 +92,20 @@ export function demodulateCycleRange(
   for (let m = 0; m < cycles; m++) maxLength = Math.max(maxLength, bounds[m + 1]! - bounds[m]!);
   const sinBuf = new Float64Array(maxLength);
   const cosBuf = new Float64Array(maxLength);
+  const sums = new Float64Array(6);
 
+  // The loops over samples are small functions called once per cycle: one function holding
+  // them all was compiled on stack (OSR) with no type feedback for the code after its loops,
+  // deoptimised there and recompiled several times on a 10^7-sample record, running slow
+  // meanwhile (seen with --trace-deopt); small ones are optimised whole after a few calls.
   for (let m = 0; m < cycles; m++) {
     const start = bounds[m]!;
     const length = bounds[m + 1]! - start;
     const startPhase = carrierPhaseAt(track, start);
     const endPhase = carrierPhaseAt(track, start + length - 1);
     const w = length > 1 ? (endPhase - startPhase) / (length - 1) : carrierRadPerSampleAt(track, start);
-    const cw = Math.cos(w);
-    const sw = Math.sin(w);
-    let s = Math.sin(startPhase);
-    let c = Math.cos(startPhase);
-    let ss = 0, sc = 0, cc = 0, s1 = 0, c1 = 0;
-    for (let i = 0; i < length; i++) {
-      sinBuf[i] = s;
-      cosBuf[i] = c;
-      ss += s * s;
-      sc += s * c;
-      cc += c * c;
-      s1 += s;
-      c1 += c;
-      const sNext = s * cw + c * sw;
-      c = c * cw - s * sw;
-      s = sNext;
-    }
+    fillCycleTable(startPhase, w, length, sinBuf, cosBuf, sums);
+    const ss = sums[0]!, sc = sums[1]!, cc = sums[2]!, s1 = sums[3]!, c1 = sums[4]!;
     // Inverse of the symmetric 3x3 normal matrix [[ss, sc, s1], [sc, cc, c1], [s1, c1, L]].
     const L = length;
     const a00 = cc * L - c1 * c1;
@@ -131,21 +121,8 @@ export function demodulateCycleRange(
     // (each channel's sums keep their order, so the result is the same as one channel per pass).
     let ch = 0;
     for (; ch + 1 < channels.length; ch += 2) {
-      const x = channels[ch]!;
-      const y = channels[ch + 1]!;
-      let xs = 0, xc = 0, x1 = 0, ys = 0, yc = 0, y1 = 0;
-      for (let i = 0; i < length; i++) {
-        const si = sinBuf[i]!;
-        const ci = cosBuf[i]!;
-        const v = x[start + i]!;
-        const u = y[start + i]!;
-        xs += v * si;
-        xc += v * ci;
-        x1 += v;
-        ys += u * si;
-        yc += u * ci;
-        y1 += u;
-      }
+      projectPair(channels[ch]!, channels[ch + 1]!, start, length, sinBuf, cosBuf, sums);
+      const xs = sums[0]!, xc = sums[1]!, x1 = sums[2]!, ys = sums[3]!, yc = sums[4]!, y1 = sums[5]!;
       inPhase[ch]![m] = (a00 * xs + a01 * xc + a02 * x1) * inv;
       quadrature[ch]![m] = (a01 * xs + a11 * xc + a12 * x1) * inv;
       dc[ch]![m] = (a02 * xs + a12 * xc + a22 * x1) * inv;
@@ -154,14 +131,8 @@ export function demodulateCycleRange(
       dc[ch + 1]![m] = (a02 * ys + a12 * yc + a22 * y1) * inv;
     }
     if (ch < channels.length) {
-      const x = channels[ch]!;
-      let xs = 0, xc = 0, x1 = 0;
-      for (let i = 0; i < length; i++) {
-        const v = x[start + i]!;
-        xs += v * sinBuf[i]!;
-        xc += v * cosBuf[i]!;
-        x1 += v;
-      }
+      projectOne(channels[ch]!, start, length, sinBuf, cosBuf, sums);
+      const xs = sums[0]!, xc = sums[1]!, x1 = sums[2]!;
       inPhase[ch]![m] = (a00 * xs + a01 * xc + a02 * x1) * inv;
       quadrature[ch]![m] = (a01 * xs + a11 * xc + a12 * x1) * inv;
       dc[ch]![m] = (a02 * xs + a12 * xc + a22 * x1) * inv;
@@ -175,6 +146,72 @@ export function demodulateCycleRange(
     centrePhaseRad[m] = phase < 0 ? phase + 2 * Math.PI : phase;
   }
   return { cycleCount: cycles, centreS, firstSample, lengthSamples, radPerSample, centrePhaseRad, inPhase, quadrature, dc };
+}
+
+/**
+ * sin and cos of startPhase + i·w for i < length into the tables, stepped by a rotation, and
+ * the normal-matrix sums Σs², Σsc, Σc², Σs, Σc into sums[0..5).
+ */
+function fillCycleTable(startPhase: number, w: number, length: number, sinBuf: Float64Array, cosBuf: Float64Array, sums: Float64Array): void {
+  const cw = Math.cos(w);
+  const sw = Math.sin(w);
+  let s = Math.sin(startPhase);
+  let c = Math.cos(startPhase);
+  let ss = 0, sc = 0, cc = 0, s1 = 0, c1 = 0;
+  for (let i = 0; i < length; i++) {
+    sinBuf[i] = s;
+    cosBuf[i] = c;
+    ss += s * s;
+    sc += s * c;
+    cc += c * c;
+    s1 += s;
+    c1 += c;
+    const sNext = s * cw + c * sw;
+    c = c * cw - s * sw;
+    s = sNext;
+  }
+  sums[0] = ss;
+  sums[1] = sc;
+  sums[2] = cc;
+  sums[3] = s1;
+  sums[4] = c1;
+}
+
+/** Σx·sin, Σx·cos, Σx and the same for y over one cycle's samples, into sums[0..6). */
+function projectPair(x: ArrayLike<number>, y: ArrayLike<number>, start: number, length: number, sinBuf: Float64Array, cosBuf: Float64Array, sums: Float64Array): void {
+  let xs = 0, xc = 0, x1 = 0, ys = 0, yc = 0, y1 = 0;
+  for (let i = 0; i < length; i++) {
+    const si = sinBuf[i]!;
+    const ci = cosBuf[i]!;
+    const v = x[start + i]!;
+    const u = y[start + i]!;
+    xs += v * si;
+    xc += v * ci;
+    x1 += v;
+    ys += u * si;
+    yc += u * ci;
+    y1 += u;
+  }
+  sums[0] = xs;
+  sums[1] = xc;
+  sums[2] = x1;
+  sums[3] = ys;
+  sums[4] = yc;
+  sums[5] = y1;
+}
+
+/** Σx·sin, Σx·cos and Σx over one cycle's samples, into sums[0..3). */
+function projectOne(x: ArrayLike<number>, start: number, length: number, sinBuf: Float64Array, cosBuf: Float64Array, sums: Float64Array): void {
+  let xs = 0, xc = 0, x1 = 0;
+  for (let i = 0; i < length; i++) {
+    const v = x[start + i]!;
+    xs += v * sinBuf[i]!;
+    xc += v * cosBuf[i]!;
+    x1 += v;
+  }
+  sums[0] = xs;
+  sums[1] = xc;
+  sums[2] = x1;
 }
 
 /** Phasors of consecutive cycle ranges (same channels, in order) joined into one. */

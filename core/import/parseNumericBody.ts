@@ -1,4 +1,4 @@
-import { composeDecimal, int16Exponent } from './composeDecimal.js';
+import { composeDecimal, int16Exponent, NEG_POW10 } from './composeDecimal.js';
 import { decodeUtf8 } from './decodeUtf8.js';
 import { OVERRANGE_MAGNITUDE, parseNumberText, unquoteCell } from './parseNumberText.js';
 import type { LineFindingCollector } from './collectLineFindings.js';
@@ -14,11 +14,17 @@ export interface TimeStampSink {
 }
 
 /**
- * Time stamps of clean rows collected before they go to the sink in one addRun() call: a call
- * per row with a double argument boxes it (a heap allocation per row when the call is not
- * inlined: hundreds of young-generation collections on a 10^7-row capture, measured).
+ * Rows the clean-row fast path takes per call. Their time stamps are collected and go to the
+ * sink in one addRun() call: a call per row with a double argument boxes it (a heap allocation
+ * per row when the call is not inlined: hundreds of young-generation collections on a
+ * 10^7-row capture, measured). Short calls also get the function optimised whole: one call per
+ * 1 MiB read was compiled on stack (OSR) with no feedback for the code after its loop, and that
+ * code deoptimised at the end of every call, ~400 times per thread on a 10^7-row capture
+ * (seen with --trace-deopt).
  */
-const STAMP_RUN = 4096;
+const CLEAN_ROWS_PER_CALL = 4096;
+const WARM_UP_CALLS = 4;
+const WARM_UP_ROWS = 8;
 
 /**
  * A per-line report held back instead of becoming a finding, with the line counted from the
@@ -103,9 +109,11 @@ export class NumericBodyParser {
   private readonly held: HeldBodyEvents | undefined;
 
   private readonly allocate: (length: number) => Float32Array;
-  /** Scratch for the time stamps of a run of clean rows (see STAMP_RUN). */
-  private readonly stamps = new Float64Array(STAMP_RUN);
-  private readonly stampExponents = new Int16Array(STAMP_RUN);
+  /** Scratch for the time stamps of a run of clean rows (see CLEAN_ROWS_PER_CALL). */
+  private readonly stamps = new Float64Array(CLEAN_ROWS_PER_CALL);
+  private readonly stampExponents = new Int16Array(CLEAN_ROWS_PER_CALL);
+  /** Calls of the clean-row fast path so far (the first ones are short, see there). */
+  private cleanCalls = 0;
 
   /**
    * With `held`, per-line reports are kept there (see BodyEvent) instead of going to `findings`;
@@ -219,7 +227,13 @@ export class NumericBodyParser {
       if (fastRows) {
         this.rows = row;
         this.line = line;
-        p = this.parseCleanRows(buf, p, end);
+        // A block at a time (see CLEAN_ROWS_PER_CALL); a short block stopped at a row the fast
+        // path does not take, at the capacity or at the end of the region.
+        for (;;) {
+          const before = this.rows;
+          p = this.parseCleanRows(buf, p, end);
+          if (p >= end || this.rows - before < CLEAN_ROWS_PER_CALL) break;
+        }
         row = this.rows;
         line = this.line;
         if (p >= end) break;
@@ -420,17 +434,19 @@ export class NumericBodyParser {
     const columns = this.columns;
     const timebase = this.timebase;
     const timeFactor = plan.timeFactorS;
-    const capacity = this.capacity;
     let row = this.rows;
+    // The first calls take a few rows only, so that the code after the loop runs (and gives
+    // its type feedback) before the loop is hot enough to be compiled on stack.
+    const stop = Math.min(this.capacity, row + (this.cleanCalls++ < WARM_UP_CALLS ? WARM_UP_ROWS : CLEAN_ROWS_PER_CALL));
     let line = this.line;
     let p = start;
     const stamps = this.stamps;
     const exponents = this.stampExponents;
-    // Clean rows are one line each: the stamps of a run share one line-row offset.
+    // Clean rows are one line each: the stamps of the block share one line-row offset.
     const lineShift = line - row;
-    let runStart = row;
+    const runStart = row;
     let n = 0;
-    while (p < end && row < capacity) {
+    while (p < end && row < stop) {
       let q = p;
       let b = buf[q];
       let tValue = NaN;
@@ -462,7 +478,9 @@ export class NumericBodyParser {
         }
         if (nd === 0 || nd > 19 || !(mantissa < 9007199254740992)) break;
         let e10 = -nf;
-        if ((b | 32) === 101) {
+        let v: number;
+        if ((b | 32) !== 101) v = mantissa * NEG_POW10[nf]!;
+        else {
           b = buf[++q];
           let eNeg = false;
           if (b === 45) {
@@ -478,8 +496,8 @@ export class NumericBodyParser {
           const ne = q - expStart;
           if (ne === 0 || ne > 5) break;
           e10 += eNeg ? -e : e;
+          v = composeDecimal(mantissa, e10);
         }
-        let v = composeDecimal(mantissa, e10);
         if (!(v < OVERRANGE_MAGNITUDE)) break;
         if (neg) v = -v;
         const kind = kinds[k];
@@ -508,11 +526,7 @@ export class NumericBodyParser {
           if (timebase !== undefined) {
             stamps[n] = tValue * timeFactor;
             exponents[n] = int16Exponent(tExp);
-            if (++n === STAMP_RUN) {
-              timebase.addRun(stamps, exponents, timeFactor, 0, n, runStart, runStart + lineShift);
-              runStart = row + 1;
-              n = 0;
-            }
+            n++;
           }
           line++;
           row++;
