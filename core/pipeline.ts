@@ -2,10 +2,10 @@ import { analyzeAccuracy } from './analyzeAccuracy.js';
 import { analyzeUnit, type UnitAnalysis, type UnitGroup } from './analyzeUnit.js';
 import { trackCarrier } from './carrier/trackCarrier.js';
 import { combineUnits } from './combineUnits.js';
-import { demodulateCycles, type CycleDemodulator } from './demod/demodulateCycles.js';
+import { demodulateCycles, type CycleDemodulator, type CyclePhasors } from './demod/demodulateCycles.js';
 import { checkCaptureQuality } from './diagnostics/captureQuality.js';
 import { clippedFraction } from './diagnostics/clippedFraction.js';
-import type { SampleExtremes } from './diagnostics/sampleExtremes.js';
+import { measureSampleExtremes, mergeSampleExtremes, type SampleExtremes } from './diagnostics/sampleExtremes.js';
 import { checkShaftFacts } from './diagnostics/shaftFacts.js';
 import type { Analysis } from './model/analysis.js';
 import type { Capture } from './model/capture.js';
@@ -24,11 +24,6 @@ const STATOR_BASES = new Set(['s1s3', 's3s2', 's2s1', 's3s1', 's2s3', 's1s2', 's
 export interface AnalysisEngine {
   /** Per-cycle demodulation (the carrier track's pass and every channel's). */
   readonly demodulate?: CycleDemodulator;
-  /**
-   * Starts measuring each channel's extremes (the clipping check's first pass), e.g. on another
-   * thread while the carrier is found, and returns a function that gives them when needed.
-   */
-  readonly startExtremes?: (channels: readonly Float32Array[]) => () => readonly SampleExtremes[];
 }
 
 /**
@@ -36,12 +31,10 @@ export interface AnalysisEngine {
  * (wiring, angle, unit figures, motion, harmonics, nulls, plane; a CT's error) → units together
  * (two-speed, tracking) → accuracy run → shaft facts → capture quality. Bad data becomes
  * findings; a capture that cannot be analysed throws one CaptureError. `engine` may run the
- * demodulation and the clipping check's first pass elsewhere (another thread); it must give the
- * results this thread would.
+ * demodulation elsewhere (another thread); it must give the results this thread would.
  */
 export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, engine: AnalysisEngine = {}): Analysis {
   const demodulate = engine.demodulate ?? demodulateCycles;
-  const extremes = engine.startExtremes?.(capture.channels.map((c) => c.samples));
   const assignment = assignRoles(capture, options);
   const findings: Finding[] = [...assignment.findings];
   const roles = assignment.roles;
@@ -86,8 +79,9 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, e
   const slot = (channel: number): number => used.indexOf(channel);
   const samplesPerCycle = capture.sampleRateHz / carrier.frequencyHz;
   const refPeakV = hasRef ? carrier.referenceRmsV * Math.SQRT2 : NaN;
-  const measured = extremes?.();
-  const clipped = capture.channels.map((c, i) => clippedFraction(c.samples, capture.sampleCount, samplesPerCycle, measured?.[i]));
+  const clipped = capture.channels.map((c, i) =>
+    clippedFraction(c.samples, capture.sampleCount, samplesPerCycle, slot(i) >= 0 ? wholeChannelExtremes(c.samples, capture.sampleCount, phasors, slot(i)) : undefined),
+  );
 
   // Stator units first (a CT's error is read against its transmitter's phase lead).
   const ctx = { capture, phasors, slot, carrier, refPeakV, options };
@@ -201,6 +195,19 @@ function explainMainsOscillation(findings: Finding[], carrierHz: number): void {
       ...(f.figures ? { figures: { ...f.figures } } : {}),
     });
   }
+}
+
+/**
+ * A channel's extremes over the whole record: the demodulation's (over the samples its cycles
+ * cover) merged with those of the samples before the first cycle and after the last.
+ */
+function wholeChannelExtremes(samples: Float32Array, sampleCount: number, phasors: CyclePhasors, channel: number): SampleExtremes {
+  const m = phasors.cycleCount;
+  if (m === 0) return measureSampleExtremes(samples, 0, sampleCount);
+  const first = phasors.firstSample[0]!;
+  const end = phasors.firstSample[m - 1]! + phasors.lengthSamples[m - 1]!;
+  const before = measureSampleExtremes(samples, 0, first);
+  return mergeSampleExtremes(mergeSampleExtremes(before, phasors.extremes[channel]!), measureSampleExtremes(samples, end, sampleCount));
 }
 
 const isCt = (g: UnitGroup): boolean => g.members.some((m) => m.role.base === 'ct');

@@ -19,27 +19,20 @@ export interface DemodJob {
   readonly flag: Int32Array;
 }
 
-/** The extremes of whole channels (measureSampleExtremes); `out` holds EXTREMES_FIELDS per channel. */
-export interface ExtremesJob {
-  readonly kind: 'extremes';
-  readonly channels: readonly Float32Array[];
-  readonly out: Float64Array;
-  readonly flag: Int32Array;
-}
-
 /** Asks a worker that is already running (the parse worker) to say, through `alive`, that it takes jobs. */
 export interface ListenJob {
   readonly kind: 'listen';
   readonly alive: Int32Array;
 }
 
-export type HelperJob = DemodJob | ExtremesJob | ListenJob;
+export type HelperJob = DemodJob | ListenJob;
 
-export const EXTREMES_FIELDS = 5;
+/** Doubles per channel of the extremes in writePhasors' layout: sampleCount, lo, hi, countLo, countHi. */
+const EXTREMES_FIELDS = 5;
 
 /** Doubles writePhasors lays out for `cycles` cycles of `channels` channels. */
 export function phasorDoubles(channels: number, cycles: number): number {
-  return (5 + 3 * channels) * cycles;
+  return (5 + 3 * channels) * cycles + EXTREMES_FIELDS * channels;
 }
 
 /** A zero-filled Float64Array in shared memory, for a job's results. */
@@ -52,27 +45,20 @@ export function sharedFlag(): Int32Array {
   return new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
 }
 
-/** Lays extremes out as sampleCount, lo, hi, countLo, countHi per channel. */
-export function writeExtremes(extremes: readonly SampleExtremes[], out: Float64Array): void {
-  extremes.forEach((e, ch) => out.set([e.sampleCount, e.lo, e.hi, e.countLo, e.countHi], ch * EXTREMES_FIELDS));
-}
-
-export function readExtremes(out: Float64Array, channels: number): SampleExtremes[] {
-  return Array.from({ length: channels }, (_, ch) => {
-    const o = ch * EXTREMES_FIELDS;
-    return { sampleCount: out[o]!, lo: out[o + 1]!, hi: out[o + 2]!, countLo: out[o + 3]!, countHi: out[o + 4]! };
-  });
-}
-
 export const DEMOD_PENDING = 0;
 export const DEMOD_DONE = 1;
 export const DEMOD_FAILED = 2;
 
-/** Lays the phasors of `cycles` cycles out in `out`: the five per-cycle rows, then I, Q, DC per channel. */
+/**
+ * Lays the phasors of `cycles` cycles out in `out`: the five per-cycle rows, then I, Q, DC per
+ * channel, then EXTREMES_FIELDS per channel.
+ */
 export function writePhasors(p: CyclePhasors, out: Float64Array): void {
   const m = p.cycleCount;
   const rows = [p.centreS, p.firstSample, p.lengthSamples, p.radPerSample, p.centrePhaseRad, ...p.inPhase.flatMap((_, ch) => [p.inPhase[ch]!, p.quadrature[ch]!, p.dc[ch]!])];
   rows.forEach((row, r) => out.set(row.subarray(0, m), r * m));
+  const at = rows.length * m;
+  p.extremes.forEach((e, ch) => out.set([e.sampleCount, e.lo, e.hi, e.countLo, e.countHi], at + ch * EXTREMES_FIELDS));
 }
 
 /** The phasors laid out by writePhasors (views of `out`). */
@@ -88,5 +74,9 @@ export function readPhasors(out: Float64Array, cycles: number, channels: number)
     inPhase: Array.from({ length: channels }, (_, ch) => row(5 + 3 * ch)),
     quadrature: Array.from({ length: channels }, (_, ch) => row(6 + 3 * ch)),
     dc: Array.from({ length: channels }, (_, ch) => row(7 + 3 * ch)),
+    extremes: Array.from({ length: channels }, (_, ch): SampleExtremes => {
+      const o = (5 + 3 * channels) * cycles + ch * EXTREMES_FIELDS;
+      return { sampleCount: out[o]!, lo: out[o + 1]!, hi: out[o + 2]!, countLo: out[o + 3]!, countHi: out[o + 4]! };
+    }),
   };
 }

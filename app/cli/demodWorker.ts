@@ -1,6 +1,5 @@
 /**
- * Worker thread that demodulates a range of carrier cycles, or measures the channels' extremes,
- * for the main thread (bundled to dist/cli/demodWorker.js; see ParallelDemodulator). The samples
+ * Worker thread that demodulates a range of carrier cycles for the main thread (bundled to dist/cli/demodWorker.js; see ParallelDemodulator). The samples
  * arrive as views of shared memory, the results go into a shared buffer, and a shared flag tells
  * the main thread, which waits on it, that they are there.
  */

@@ -6,34 +6,17 @@
  * demodulateCycles gives, bit for bit. The analysis pipeline is synchronous: this thread waits
  * for the worker on a shared flag (Atomics.wait) rather than on a message.
  *
- * Used only when the worker has said it listens, is not still busy with an earlier job (the
- * extremes), every channel lies in shared memory and the record holds enough cycles; otherwise,
- * or when the worker fails, all of it is done here.
+ * Used only when the worker has said it listens, every channel lies in shared memory and the
+ * record holds enough cycles; otherwise, or when the worker fails, all of it is done here.
  */
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { cycleBoundaries, demodulateCycleRange, joinCyclePhasors, type CycleDemodulator, type CyclePhasors } from '../../core/demod/demodulateCycles.js';
 import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
-import { measureSampleExtremes, type SampleExtremes } from '../../core/diagnostics/sampleExtremes.js';
-import {
-  DEMOD_DONE,
-  DEMOD_PENDING,
-  EXTREMES_FIELDS,
-  phasorDoubles,
-  readExtremes,
-  readPhasors,
-  sharedDoubles,
-  sharedFlag,
-  type DemodJob,
-  type ExtremesJob,
-  type ListenJob,
-} from './demodJob.js';
+import { DEMOD_DONE, DEMOD_PENDING, phasorDoubles, readPhasors, sharedDoubles, sharedFlag, type DemodJob, type ListenJob } from './demodJob.js';
 
 /** Below this many cycles the hand-over costs more than half the work. Measured, no source. */
 const MIN_SHARED_CYCLES = 256;
-
-/** Longest wait for the extremes from their start: the worker's start-up plus ~25 ns/sample. */
-const EXTREMES_WAIT_MS = 3000;
 
 /** Zero-filled sample columns in shared memory (ImportOptions.allocateSamples). */
 export function sharedSamples(length: number): Float32Array {
@@ -45,8 +28,6 @@ export class ParallelDemodulator {
   /** [state] set by the worker once it listens (DEMOD_DONE), read without the event loop. */
   private readonly alive = sharedFlag();
   private broken = false;
-  /** Flags of the jobs posted whose answer has not been seen yet (see busy). */
-  private pending: Int32Array[] = [];
 
   /**
    * True once the worker listens and has not been seen to fail. Read from shared memory, so it
@@ -56,19 +37,7 @@ export class ParallelDemodulator {
     return Atomics.load(this.alive, 0) === DEMOD_DONE && !this.broken;
   }
 
-  /**
-   * True while a job posted earlier is still running or queued on the worker: splitting a
-   * demodulation then would leave this thread waiting for it, so the demodulation runs here.
-   */
-  get busy(): boolean {
-    this.pending = this.pending.filter((flag) => Atomics.load(flag, 0) === DEMOD_PENDING);
-    return this.pending.length > 0;
-  }
-
-  /** Demodulations run wholly here because the worker was busy (for tests). */
-  ranHereWhileBusy = 0;
-
-  /** Jobs the worker did so far (demodulations split over both threads, extremes measured; for tests). */
+  /** Demodulations split over both threads so far (for tests). */
   shared = 0;
 
   /**
@@ -96,10 +65,6 @@ export class ParallelDemodulator {
     const cycles = bounds.length - 1;
     const shareable = channels.every((c) => c instanceof Float32Array && c.buffer instanceof SharedArrayBuffer);
     if (!this.usable || !shareable || cycles < MIN_SHARED_CYCLES) return demodulateCycleRange(channels, track, bounds);
-    if (this.busy) {
-      this.ranHereWhileBusy++;
-      return demodulateCycleRange(channels, track, bounds);
-    }
     const split = cycles >> 1;
     const theirBounds = bounds.slice(split);
     const theirCycles = cycles - split;
@@ -121,32 +86,6 @@ export class ParallelDemodulator {
       theirs = demodulateCycleRange(channels, track, theirBounds);
     }
     return joinCyclePhasors([mine, theirs]);
-  };
-
-  /**
-   * Starts measuring the channels' extremes on the worker (AnalysisEngine.startExtremes): the
-   * job waits in the worker's queue if it is still starting, and runs while this thread finds
-   * the carrier. The function returned waits for them; samples outside shared memory, or a
-   * worker seen failing, are measured here instead.
-   */
-  readonly startExtremes = (channels: readonly Float32Array[]): (() => readonly SampleExtremes[]) => {
-    const here = (): SampleExtremes[] => channels.map((c) => measureSampleExtremes(c, 0, c.length));
-    if (this.broken || !channels.every((c) => c.buffer instanceof SharedArrayBuffer)) return here;
-    const out = sharedDoubles(EXTREMES_FIELDS * channels.length);
-    const flag = sharedFlag();
-    this.worker.postMessage({ kind: 'extremes', channels, out, flag } satisfies ExtremesJob);
-    this.pending.push(flag);
-    // A worker that never starts (a broken script) is only seen on the event loop: bounded wait.
-    const started = performance.now();
-    return () => {
-      Atomics.wait(flag, 0, DEMOD_PENDING, Math.max(0, EXTREMES_WAIT_MS - (performance.now() - started)));
-      if (Atomics.load(flag, 0) === DEMOD_DONE) {
-        this.shared++;
-        return readExtremes(out, channels.length);
-      }
-      this.broken = true;
-      return here();
-    };
   };
 
   async close(): Promise<void> {

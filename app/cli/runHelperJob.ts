@@ -4,8 +4,7 @@
  * set and notified, since the main thread waits on the flag, not on a message.
  */
 import { demodulateCycleRange } from '../../core/demod/demodulateCycles.js';
-import { measureSampleExtremes } from '../../core/diagnostics/sampleExtremes.js';
-import { DEMOD_DONE, DEMOD_FAILED, writeExtremes, writePhasors, type HelperJob } from './demodJob.js';
+import { DEMOD_DONE, DEMOD_FAILED, writePhasors, type HelperJob } from './demodJob.js';
 
 export function runHelperJob(job: HelperJob): void {
   if (job.kind === 'listen') {
@@ -14,8 +13,7 @@ export function runHelperJob(job: HelperJob): void {
   }
   let state = DEMOD_DONE;
   try {
-    if (job.kind === 'demodulate') writePhasors(demodulateCycleRange(job.channels, job.track, job.bounds), job.out);
-    else writeExtremes(job.channels.map((c) => measureSampleExtremes(c, 0, c.length)), job.out);
+    writePhasors(demodulateCycleRange(job.channels, job.track, job.bounds), job.out);
   } catch {
     state = DEMOD_FAILED;
   }

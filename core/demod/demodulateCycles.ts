@@ -1,4 +1,6 @@
 import { carrierPhaseAt, carrierRadPerSampleAt, type CarrierTrack } from '../carrier/carrierTrack.js';
+import { mergeSampleExtremes, type SampleExtremes } from '../diagnostics/sampleExtremes.js';
+import { EXTREMES_STATE, fillCycleTable, projectOne, projectPair } from './cycleKernels.js';
 
 /**
  * One complex phasor per carrier cycle per channel.
@@ -31,6 +33,13 @@ export interface CyclePhasors {
   readonly inPhase: readonly Float64Array[];
   readonly quadrature: readonly Float64Array[];
   readonly dc: readonly Float64Array[];
+  /**
+   * Per channel, the extremes of the samples the cycles cover (firstSample[0] up to the end of
+   * the last cycle): the clipping check's first pass, taken in the same pass over the samples
+   * (a separate pass cost ~1.4 ns/sample here against ~0.35 ns/sample in the demodulation's
+   * loop, measured).
+   */
+  readonly extremes: readonly SampleExtremes[];
 }
 
 /** Window boundaries: boundary[m] = smallest sample index n with Φ(n) ≥ 2π(m0 + m). */
@@ -93,6 +102,9 @@ export function demodulateCycleRange(
   const sinBuf = new Float64Array(maxLength);
   const cosBuf = new Float64Array(maxLength);
   const sums = new Float64Array(6);
+  // Per channel: lowest and highest sample so far and how many sit on each (see projectPair).
+  const ext = new Float64Array(EXTREMES_STATE * channels.length);
+  for (let ch = 0; ch < channels.length; ch++) ext.set([Infinity, -Infinity, 0, 0], EXTREMES_STATE * ch);
 
   // The loops over samples are small functions called once per cycle: one function holding
   // them all was compiled on stack (OSR) with no type feedback for the code after its loops,
@@ -121,7 +133,7 @@ export function demodulateCycleRange(
     // (each channel's sums keep their order, so the result is the same as one channel per pass).
     let ch = 0;
     for (; ch + 1 < channels.length; ch += 2) {
-      projectPair(channels[ch]!, channels[ch + 1]!, start, length, sinBuf, cosBuf, sums);
+      projectPair(channels[ch]!, channels[ch + 1]!, start, length, sinBuf, cosBuf, sums, ext, EXTREMES_STATE * ch);
       const xs = sums[0]!, xc = sums[1]!, x1 = sums[2]!, ys = sums[3]!, yc = sums[4]!, y1 = sums[5]!;
       inPhase[ch]![m] = (a00 * xs + a01 * xc + a02 * x1) * inv;
       quadrature[ch]![m] = (a01 * xs + a11 * xc + a12 * x1) * inv;
@@ -131,7 +143,7 @@ export function demodulateCycleRange(
       dc[ch + 1]![m] = (a02 * ys + a12 * yc + a22 * y1) * inv;
     }
     if (ch < channels.length) {
-      projectOne(channels[ch]!, start, length, sinBuf, cosBuf, sums);
+      projectOne(channels[ch]!, start, length, sinBuf, cosBuf, sums, ext, EXTREMES_STATE * ch);
       const xs = sums[0]!, xc = sums[1]!, x1 = sums[2]!;
       inPhase[ch]![m] = (a00 * xs + a01 * xc + a02 * x1) * inv;
       quadrature[ch]![m] = (a01 * xs + a11 * xc + a12 * x1) * inv;
@@ -145,74 +157,14 @@ export function demodulateCycleRange(
     const phase = carrierPhaseAt(track, centre) % (2 * Math.PI);
     centrePhaseRad[m] = phase < 0 ? phase + 2 * Math.PI : phase;
   }
-  return { cycleCount: cycles, centreS, firstSample, lengthSamples, radPerSample, centrePhaseRad, inPhase, quadrature, dc };
+  const covered = cycles > 0 ? bounds[cycles]! - bounds[0]! : 0;
+  const extremes = channels.map((_, ch): SampleExtremes => {
+    const o = EXTREMES_STATE * ch;
+    return { sampleCount: covered, lo: ext[o]!, hi: ext[o + 1]!, countLo: ext[o + 2]!, countHi: ext[o + 3]! };
+  });
+  return { cycleCount: cycles, centreS, firstSample, lengthSamples, radPerSample, centrePhaseRad, inPhase, quadrature, dc, extremes };
 }
 
-/**
- * sin and cos of startPhase + i·w for i < length into the tables, stepped by a rotation, and
- * the normal-matrix sums Σs², Σsc, Σc², Σs, Σc into sums[0..5).
- */
-function fillCycleTable(startPhase: number, w: number, length: number, sinBuf: Float64Array, cosBuf: Float64Array, sums: Float64Array): void {
-  const cw = Math.cos(w);
-  const sw = Math.sin(w);
-  let s = Math.sin(startPhase);
-  let c = Math.cos(startPhase);
-  let ss = 0, sc = 0, cc = 0, s1 = 0, c1 = 0;
-  for (let i = 0; i < length; i++) {
-    sinBuf[i] = s;
-    cosBuf[i] = c;
-    ss += s * s;
-    sc += s * c;
-    cc += c * c;
-    s1 += s;
-    c1 += c;
-    const sNext = s * cw + c * sw;
-    c = c * cw - s * sw;
-    s = sNext;
-  }
-  sums[0] = ss;
-  sums[1] = sc;
-  sums[2] = cc;
-  sums[3] = s1;
-  sums[4] = c1;
-}
-
-/** Σx·sin, Σx·cos, Σx and the same for y over one cycle's samples, into sums[0..6). */
-function projectPair(x: ArrayLike<number>, y: ArrayLike<number>, start: number, length: number, sinBuf: Float64Array, cosBuf: Float64Array, sums: Float64Array): void {
-  let xs = 0, xc = 0, x1 = 0, ys = 0, yc = 0, y1 = 0;
-  for (let i = 0; i < length; i++) {
-    const si = sinBuf[i]!;
-    const ci = cosBuf[i]!;
-    const v = x[start + i]!;
-    const u = y[start + i]!;
-    xs += v * si;
-    xc += v * ci;
-    x1 += v;
-    ys += u * si;
-    yc += u * ci;
-    y1 += u;
-  }
-  sums[0] = xs;
-  sums[1] = xc;
-  sums[2] = x1;
-  sums[3] = ys;
-  sums[4] = yc;
-  sums[5] = y1;
-}
-
-/** Σx·sin, Σx·cos and Σx over one cycle's samples, into sums[0..3). */
-function projectOne(x: ArrayLike<number>, start: number, length: number, sinBuf: Float64Array, cosBuf: Float64Array, sums: Float64Array): void {
-  let xs = 0, xc = 0, x1 = 0;
-  for (let i = 0; i < length; i++) {
-    const v = x[start + i]!;
-    xs += v * sinBuf[i]!;
-    xc += v * cosBuf[i]!;
-    x1 += v;
-  }
-  sums[0] = xs;
-  sums[1] = xc;
-  sums[2] = x1;
-}
 
 /** Phasors of consecutive cycle ranges (same channels, in order) joined into one. */
 export function joinCyclePhasors(parts: readonly CyclePhasors[]): CyclePhasors {
@@ -239,5 +191,6 @@ export function joinCyclePhasors(parts: readonly CyclePhasors[]): CyclePhasors {
     inPhase: perChannel((p) => p.inPhase),
     quadrature: perChannel((p) => p.quadrature),
     dc: perChannel((p) => p.dc),
+    extremes: Array.from({ length: channels }, (_, ch) => parts.map((p) => p.extremes[ch]!).reduce(mergeSampleExtremes)),
   };
 }

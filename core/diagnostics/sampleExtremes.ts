@@ -1,7 +1,8 @@
 /**
  * The lowest and highest sample of a channel and how many samples sit on each: the first pass
- * of the clipping check (clippedFraction), measured apart so that it can run elsewhere (another
- * thread, AnalysisEngine.startExtremes) or in shares that are merged. NaN samples are skipped.
+ * of the clipping check (clippedFraction), measured apart so that it can be taken elsewhere (in
+ * the demodulation's pass, CyclePhasors.extremes) or in shares that are merged. NaN samples are
+ * skipped.
  */
 export interface SampleExtremes {
   /** Samples measured (NaN ones included); the extremes fit a channel only of this length. */

@@ -8,7 +8,6 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { ParallelDemodulator, sharedSamples } from '../../app/cli/parallelDemodulator.js';
 import { constantCarrierTrack } from '../../core/carrier/carrierTrack.js';
 import { demodulateCycles } from '../../core/demod/demodulateCycles.js';
-import { measureSampleExtremes } from '../../core/diagnostics/sampleExtremes.js';
 import { createRandom } from '../../core/synth/random.js';
 
 const WORKER = resolve('dist/cli/demodWorker.js');
@@ -44,59 +43,23 @@ describe('ParallelDemodulator', () => {
       const { channels, track } = lines(400_000, true);
       const got = helper.demodulate(channels, track, 400_000);
       expect(helper.shared).toBe(1);
+      // Phasors and each channel's extremes (merged from the two halves).
       expect(got).toEqual(demodulateCycles(channels, track, 400_000));
+      const three = channels.slice(0, 3);
+      expect(helper.demodulate(three, track, 400_000)).toEqual(demodulateCycles(three, track, 400_000));
     } finally {
       await helper.close();
     }
   }, 60_000);
 
-  it('measures the extremes on the worker as measureSampleExtremes does here (the oracle), and here when it cannot', async () => {
-    const helper = new ParallelDemodulator(WORKER);
-    try {
-      const { channels } = lines(300_000, true);
-      const want = channels.map((c) => measureSampleExtremes(c, 0, c.length));
-      // Started before the worker listens: the job waits in its queue.
-      const pending = helper.startExtremes(channels);
-      expect(pending()).toEqual(want);
-      expect(helper.shared).toBe(1);
-      const plain = lines(1000, false).channels;
-      expect(helper.startExtremes(plain)()).toEqual(plain.map((c) => measureSampleExtremes(c, 0, c.length)));
-      expect(helper.shared).toBe(1);
-    } finally {
-      await helper.close();
-    }
-  }, 60_000);
-
-  it('demodulates here, bit for bit as demodulateCycles (the oracle), while the worker is still measuring the extremes, and splits again once it is done', async () => {
-    const helper = new ParallelDemodulator(WORKER);
-    try {
-      await started(helper);
-      const { channels, track } = lines(400_000, true);
-      const want = demodulateCycles(channels, track, 400_000);
-      const extremes = helper.startExtremes(channels);
-      // Asked right after the extremes were posted: the worker cannot have scanned 1.6e6 samples yet.
-      expect(helper.busy).toBe(true);
-      expect(helper.demodulate(channels, track, 400_000)).toEqual(want);
-      expect(helper.ranHereWhileBusy).toBe(1);
-      extremes();
-      expect(helper.busy).toBe(false);
-      expect(helper.demodulate(channels, track, 400_000)).toEqual(want);
-      expect(helper.ranHereWhileBusy).toBe(1);
-      expect(helper.shared).toBe(2);
-    } finally {
-      await helper.close();
-    }
-  }, 60_000);
-
-  it('takes a running parse worker as its helper (asked to listen), and gives demodulateCycles and measureSampleExtremes bit for bit (the oracles)', async () => {
+  it('takes a running parse worker as its helper (asked to listen), and gives demodulateCycles bit for bit (the oracle)', async () => {
     const helper = new ParallelDemodulator(new Worker(PARSE_WORKER));
     try {
       await started(helper);
       expect(helper.usable).toBe(true);
       const { channels, track } = lines(400_000, true);
-      expect(helper.startExtremes(channels)()).toEqual(channels.map((c) => measureSampleExtremes(c, 0, c.length)));
       expect(helper.demodulate(channels, track, 400_000)).toEqual(demodulateCycles(channels, track, 400_000));
-      expect(helper.shared).toBe(2);
+      expect(helper.shared).toBe(1);
     } finally {
       await helper.close();
     }
@@ -136,7 +99,6 @@ describe('ParallelDemodulator', () => {
       await new Promise((r) => setTimeout(r, 300));
       const shared = lines(200_000, true);
       expect(broken.demodulate(shared.channels, shared.track, 200_000)).toEqual(demodulateCycles(shared.channels, shared.track, 200_000));
-      expect(broken.startExtremes(shared.channels)()).toEqual(shared.channels.map((c) => measureSampleExtremes(c, 0, c.length)));
       expect(broken.shared).toBe(0);
     } finally {
       await helper.close();

@@ -13,5 +13,6 @@ export function phasorsFrom(inPhase: number[][], quadrature?: number[][]): Cycle
     inPhase: inPhase.map((c) => Float64Array.from(c)),
     quadrature: (quadrature ?? inPhase.map((c) => c.map(() => 0))).map((c) => Float64Array.from(c)),
     dc: inPhase.map(() => new Float64Array(n)),
+    extremes: inPhase.map(() => ({ sampleCount: 0, lo: Infinity, hi: -Infinity, countLo: 0, countHi: 0 })),
   };
 }

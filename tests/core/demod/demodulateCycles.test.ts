@@ -63,6 +63,29 @@ describe('demodulateCycles(channels, track, n)', () => {
     }
   });
 
+  it('gives each channel the extremes of the samples its cycles cover, with NaNs skipped and ties counted (oracle: a direct min/max and count over that range)', () => {
+    const fs = 50_000;
+    const n = 5000;
+    const track = constantCarrierTrack(fs, 401.3, 0.7, n);
+    const random = createRandom(20261204);
+    // Quantised to a coarse step so that several samples tie on each extreme; one in 500 is NaN.
+    const channels = [0, 1, 2, 3, 4].map((k) =>
+      Float32Array.from({ length: n }, (_, i) => (random.uniform() < 0.002 ? NaN : Math.round(4 * (k + 1) * Math.sin(2 * Math.PI * 401.3 * (i / fs) + k)) / 4)),
+    );
+    for (let count = 1; count <= 5; count++) {
+      const out = demodulateCycles(channels.slice(0, count), track, n);
+      const first = out.firstSample[0]!;
+      const end = out.firstSample[out.cycleCount - 1]! + out.lengthSamples[out.cycleCount - 1]!;
+      for (let ch = 0; ch < count; ch++) {
+        const covered = Array.from(channels[ch]!.subarray(first, end)).filter((v) => !Number.isNaN(v));
+        const lo = covered.reduce((a, b) => Math.min(a, b), Infinity);
+        const hi = covered.reduce((a, b) => Math.max(a, b), -Infinity);
+        expect(out.extremes[ch]).toEqual({ sampleCount: end - first, lo, hi, countLo: covered.filter((v) => v === lo).length, countHi: covered.filter((v) => v === hi).length });
+        expect(out.extremes[ch]!.countHi).toBeGreaterThan(1);
+      }
+    }
+  });
+
   it('cycle ranges demodulated apart and joined equal the whole pass bit for bit, cut anywhere', () => {
     // Oracle: demodulateCycles over the whole record (each cycle depends on its own samples only).
     const fs = 50_000;
