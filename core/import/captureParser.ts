@@ -111,8 +111,6 @@ const PRESIZE_SLACK = 0.12;
 /** Relative disagreement between a preamble interval and the time column worth a finding. */
 const INTERVAL_MISMATCH = 1e-3;
 
-/** Size of the slices handed to the body parser. */
-
 const DELIMITER_BYTE = { ',': 44, ';': 59, '\t': 9, ' ': 32 } as const;
 
 /**
@@ -126,10 +124,17 @@ export function createCaptureParser(options: ImportOptions = {}): CaptureParser 
   return new StreamingCaptureParser(options);
 }
 
+/**
+ * Bytes per push() when parseCaptureBytes feeds a whole file: the head is copied until the
+ * layout is sniffed, and one call over a 400 MB file ran at about half the speed of 1 MiB
+ * pushes (measured: the parse loop's first call is then one long on-stack-compiled run).
+ */
+const BYTES_PER_PUSH = 1 << 20;
+
 /** Parses one complete file given as bytes; same result as pushing it in chunks. */
 export function parseCaptureBytes(bytes: Uint8Array, options?: ImportOptions): ImportResult {
   const parser = createCaptureParser({ sizeHintBytes: bytes.length, ...options });
-  parser.push(bytes);
+  for (let at = 0; at < bytes.length; at += BYTES_PER_PUSH) parser.push(bytes.subarray(at, Math.min(bytes.length, at + BYTES_PER_PUSH)));
   return parser.finish();
 }
 
