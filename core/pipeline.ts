@@ -3,7 +3,8 @@ import { analyzeUnit, type UnitAnalysis, type UnitGroup } from './analyzeUnit.js
 import { trackCarrier } from './carrier/trackCarrier.js';
 import { combineUnits } from './combineUnits.js';
 import { demodulateCycles, type CycleDemodulator, type CyclePhasors } from './demod/demodulateCycles.js';
-import { checkCaptureQuality } from './diagnostics/captureQuality.js';
+import { checkCaptureQuality, type CarrierResidualFit, type ResidualChannel } from './diagnostics/captureQuality.js';
+import type { CarrierTrack } from './carrier/carrierTrack.js';
 import { clippedFraction } from './diagnostics/clippedFraction.js';
 import { measureSampleExtremes, mergeSampleExtremes, type SampleExtremes } from './diagnostics/sampleExtremes.js';
 import { checkShaftFacts } from './diagnostics/shaftFacts.js';
@@ -24,6 +25,17 @@ const STATOR_BASES = new Set(['s1s3', 's3s2', 's2s1', 's3s1', 's2s3', 's1s2', 's
 export interface AnalysisEngine {
   /** Per-cycle demodulation (the carrier track's pass and every channel's). */
   readonly demodulate?: CycleDemodulator;
+  /**
+   * Starts fitCarrierResidual (the mains-hum and DC check's pass over the samples) elsewhere,
+   * e.g. on another thread while the units are analysed here, and returns a function that gives
+   * its result; undefined when it cannot (the fit is then made here).
+   */
+  readonly startCarrierResidual?: (
+    channels: readonly ResidualChannel[],
+    phasors: CyclePhasors,
+    track: CarrierTrack,
+    carrierHz: number,
+  ) => (() => CarrierResidualFit | undefined) | undefined;
 }
 
 /**
@@ -79,6 +91,14 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, e
   const slot = (channel: number): number => used.indexOf(channel);
   const samplesPerCycle = capture.sampleRateHz / carrier.frequencyHz;
   const refPeakV = hasRef ? carrier.referenceRmsV * Math.SQRT2 : NaN;
+  // The quality check's channels are `used`, in order (phasor slot k); its residual fit needs
+  // only the phasors, so it may run elsewhere while the units are analysed.
+  const residual = engine.startCarrierResidual?.(
+    used.map((ch, k) => ({ samples: capture.channels[ch]!.samples, phasorChannel: k })),
+    phasors,
+    carrier.track,
+    carrier.frequencyHz,
+  );
   const clipped = capture.channels.map((c, i) =>
     clippedFraction(c.samples, capture.sampleCount, samplesPerCycle, slot(i) >= 0 ? wholeChannelExtremes(c.samples, capture.sampleCount, phasors, slot(i)) : undefined),
   );
@@ -133,6 +153,7 @@ export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, e
       .filter((u) => u.lines !== null)
       .map((u) => ({ lines: u.lines!, roleNames: u.lines!.lines.map((l) => formatRole(roles[used[l.channel]!]!)) })),
     clippedFractions: used.map((ch) => clipped[ch]!),
+    ...(residual ? { carrierResidual: residual } : {}),
   });
   findings.push(...quality.findings);
   explainMainsOscillation(findings, carrier.frequencyHz);

@@ -44,7 +44,7 @@ export async function analyzeFile(path: string, displayName: string, options: An
       shared ? { onHeadParsed: keepParseWorker } : {},
     );
     if (shared) helper ??= new ParallelDemodulator();
-    const analysis = analyzeCapture(imported.capture, options, helper ? { demodulate: helper.demodulate } : {});
+    const analysis = analyzeCapture(imported.capture, options, helper ? { demodulate: helper.demodulate, startCarrierResidual: helper.startCarrierResidual } : {});
     return { ...analysis, findings: [...imported.findings, ...analysis.findings] as Finding[] };
   } catch (error) {
     if (error instanceof CaptureError) throw new FileCaptureError(error.describeIn(displayName));

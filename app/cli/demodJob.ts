@@ -5,7 +5,9 @@
  */
 import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
 import type { CyclePhasors } from '../../core/demod/demodulateCycles.js';
+import type { CarrierResidualFit } from '../../core/diagnostics/measureMainsHum.js';
 import type { SampleExtremes } from '../../core/diagnostics/sampleExtremes.js';
+import type { MessagePort } from 'node:worker_threads';
 
 export interface DemodJob {
   readonly kind: 'demodulate';
@@ -19,13 +21,35 @@ export interface DemodJob {
   readonly flag: Int32Array;
 }
 
+/**
+ * fitCarrierResidual of `channels` (one per phasor slot in phasorChannels) against the phasors
+ * laid out by writePhasors in `phasors`; the result is posted on `port` before `flag` is set.
+ */
+export interface ResidualJob {
+  readonly kind: 'carrier-residual';
+  readonly channels: readonly Float32Array[];
+  readonly phasorChannels: readonly number[];
+  readonly phasors: Float64Array;
+  readonly cycles: number;
+  readonly phasorChannelCount: number;
+  readonly track: CarrierTrack;
+  readonly carrierHz: number;
+  readonly port: MessagePort;
+  readonly flag: Int32Array;
+}
+
+/** What a ResidualJob posts on its port. */
+export interface ResidualAnswer {
+  readonly fit: CarrierResidualFit | undefined;
+}
+
 /** Asks a worker that is already running (the parse worker) to say, through `alive`, that it takes jobs. */
 export interface ListenJob {
   readonly kind: 'listen';
   readonly alive: Int32Array;
 }
 
-export type HelperJob = DemodJob | ListenJob;
+export type HelperJob = DemodJob | ResidualJob | ListenJob;
 
 /** Doubles per channel of the extremes in writePhasors' layout: sampleCount, lo, hi, countLo, countHi. */
 const EXTREMES_FIELDS = 5;

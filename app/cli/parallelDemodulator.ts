@@ -3,17 +3,23 @@
  * demodulates the first half of the carrier cycles, a worker (demodWorker.ts) the second half
  * at the same time, reading the samples from shared memory (the importer's allocateSamples, see
  * sharedSamples). Each cycle depends only on its own samples, so the joined result is the one
- * demodulateCycles gives, bit for bit. The analysis pipeline is synchronous: this thread waits
- * for the worker on a shared flag (Atomics.wait) rather than on a message.
+ * demodulateCycles gives, bit for bit. Then the worker fits the carrier residual (the hum and
+ * DC check's pass over the samples) while this thread analyses the units. The analysis pipeline
+ * is synchronous: this thread waits for the worker on a shared flag (Atomics.wait) and takes a
+ * posted answer with receiveMessageOnPort, never through the event loop.
  *
  * Used only when the worker has said it listens, every channel lies in shared memory and the
  * record holds enough cycles; otherwise, or when the worker fails, all of it is done here.
  */
 import { join } from 'node:path';
-import { Worker } from 'node:worker_threads';
+import { MessageChannel, receiveMessageOnPort, Worker } from 'node:worker_threads';
+import { fitCarrierResidual, type CarrierResidualFit, type ResidualChannel } from '../../core/diagnostics/measureMainsHum.js';
 import { cycleBoundaries, demodulateCycleRange, joinCyclePhasors, type CycleDemodulator, type CyclePhasors } from '../../core/demod/demodulateCycles.js';
 import type { CarrierTrack } from '../../core/carrier/carrierTrack.js';
-import { DEMOD_DONE, DEMOD_PENDING, phasorDoubles, readPhasors, sharedDoubles, sharedFlag, type DemodJob, type ListenJob } from './demodJob.js';
+import { DEMOD_DONE, DEMOD_PENDING, phasorDoubles, readPhasors, sharedDoubles, sharedFlag, writePhasors, type DemodJob, type ListenJob, type ResidualAnswer, type ResidualJob } from './demodJob.js';
+
+/** Longest wait for the residual fit from its start (it takes ~50 ms cold here). */
+const RESIDUAL_WAIT_MS = 3000;
 
 /** Below this many cycles the hand-over costs more than half the work. Measured, no source. */
 const MIN_SHARED_CYCLES = 256;
@@ -37,7 +43,7 @@ export class ParallelDemodulator {
     return Atomics.load(this.alive, 0) === DEMOD_DONE && !this.broken;
   }
 
-  /** Demodulations split over both threads so far (for tests). */
+  /** Jobs the worker did for this thread so far: demodulations split, residual fits (for tests). */
   shared = 0;
 
   /**
@@ -86,6 +92,52 @@ export class ParallelDemodulator {
       theirs = demodulateCycleRange(channels, track, theirBounds);
     }
     return joinCyclePhasors([mine, theirs]);
+  };
+
+  /**
+   * Starts fitCarrierResidual on the worker (AnalysisEngine.startCarrierResidual), which is idle
+   * while this thread analyses the units; the function returned waits for it and fits here
+   * instead if the worker does not answer. Undefined (fit here) when the worker is not usable or
+   * a channel is not in shared memory.
+   */
+  readonly startCarrierResidual = (
+    channels: readonly ResidualChannel[],
+    phasors: CyclePhasors,
+    track: CarrierTrack,
+    carrierHz: number,
+  ): (() => CarrierResidualFit | undefined) | undefined => {
+    const samples = channels.map((c) => c.samples);
+    if (!this.usable || !samples.every((c): c is Float32Array => c instanceof Float32Array && c.buffer instanceof SharedArrayBuffer)) return undefined;
+    const count = phasors.inPhase.length;
+    const shared = sharedDoubles(phasorDoubles(count, phasors.cycleCount));
+    writePhasors(phasors, shared);
+    const flag = sharedFlag();
+    const { port1, port2 } = new MessageChannel();
+    const job: ResidualJob = {
+      kind: 'carrier-residual',
+      channels: samples,
+      phasorChannels: channels.map((c) => c.phasorChannel),
+      phasors: shared,
+      cycles: phasors.cycleCount,
+      phasorChannelCount: count,
+      track: plainTrack(track),
+      carrierHz,
+      port: port2,
+      flag,
+    };
+    this.worker.postMessage(job, [port2]);
+    const started = performance.now();
+    return () => {
+      Atomics.wait(flag, 0, DEMOD_PENDING, Math.max(0, RESIDUAL_WAIT_MS - (performance.now() - started)));
+      const answer = Atomics.load(flag, 0) === DEMOD_DONE ? (receiveMessageOnPort(port1)?.message as ResidualAnswer | undefined) : undefined;
+      port1.close();
+      if (answer === undefined) {
+        this.broken = true;
+        return fitCarrierResidual(channels, phasors, track, carrierHz);
+      }
+      this.shared++;
+      return answer.fit;
+    };
   };
 
   async close(): Promise<void> {

@@ -174,6 +174,11 @@ export interface CaptureQualityInput {
   readonly units?: readonly { readonly lines: UnitLines; readonly roleNames: readonly string[] }[];
   /** clippedFraction per channel if already computed (the pipeline does, for input.channels). */
   readonly clippedFractions?: readonly number[];
+  /**
+   * Gives fitCarrierResidual of input.channels if it was started elsewhere (another thread, see
+   * AnalysisEngine.startCarrierResidual); otherwise it is fitted here.
+   */
+  readonly carrierResidual?: () => CarrierResidualFit | undefined;
 }
 
 export interface CaptureQuality {
@@ -188,7 +193,7 @@ export function checkCaptureQuality(input: CaptureQualityInput): CaptureQuality 
   const findings: Finding[] = [...checkRecordLength(input.samplesPerCycle, input.phasors.cycleCount)];
   const clip = checkClipping(input.channels, input.sampleCount, input.samplesPerCycle, input.clippedFractions);
   findings.push(...clip.findings);
-  const residual = fitCarrierResidual(input.channels, input.phasors, input.track, input.carrierHz);
+  const residual = input.carrierResidual ? input.carrierResidual() : fitCarrierResidual(input.channels, input.phasors, input.track, input.carrierHz);
   const hum = measureMainsHum(input.channels, input.phasors, input.track, input.carrierHz, residual);
   findings.push(...humFindings(hum, input.channels));
   const dc = measureDcOffsets(input.channels, input.phasors, residual);

@@ -30,6 +30,9 @@ export interface HumChannel {
   readonly isReference?: boolean;
 }
 
+/** What fitCarrierResidual needs of a channel: its samples and its index in the phasor arrays. */
+export type ResidualChannel = Pick<HumChannel, 'samples' | 'phasorChannel'>;
+
 export interface HumLevel {
   readonly role: string;
   /** Frequencies fitted (the mains list minus those too near the carrier or its harmonics, or above 0.45·fs). */
@@ -97,7 +100,7 @@ export interface CarrierResidualFit {
  * those of a per-sample fit up to rounding.
  */
 export function fitCarrierResidual(
-  channels: readonly HumChannel[],
+  channels: readonly ResidualChannel[],
   phasors: CyclePhasors,
   track: CarrierTrack,
   carrierHz: number,

@@ -8,6 +8,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { ParallelDemodulator, sharedSamples } from '../../app/cli/parallelDemodulator.js';
 import { constantCarrierTrack } from '../../core/carrier/carrierTrack.js';
 import { demodulateCycles } from '../../core/demod/demodulateCycles.js';
+import { fitCarrierResidual } from '../../core/diagnostics/measureMainsHum.js';
 import { createRandom } from '../../core/synth/random.js';
 
 const WORKER = resolve('dist/cli/demodWorker.js');
@@ -47,6 +48,53 @@ describe('ParallelDemodulator', () => {
       expect(got).toEqual(demodulateCycles(channels, track, 400_000));
       const three = channels.slice(0, 3);
       expect(helper.demodulate(three, track, 400_000)).toEqual(demodulateCycles(three, track, 400_000));
+    } finally {
+      await helper.close();
+    }
+  }, 60_000);
+
+  it('fits the carrier residual on the worker as fitCarrierResidual does here (the oracle), bit for bit, and leaves it here when it cannot', async () => {
+    const helper = new ParallelDemodulator(WORKER);
+    try {
+      await started(helper);
+      const { channels, track } = lines(400_000, true);
+      const phasors = demodulateCycles(channels, track, 400_000);
+      // Channel 2 left out: the phasor slots need not be 0..n-1.
+      const chosen = [0, 1, 3].map((k) => ({ samples: channels[k]!, phasorChannel: k }));
+      const want = fitCarrierResidual(chosen, phasors, track, 400.7);
+      expect(want).toBeDefined();
+      const pending = helper.startCarrierResidual(chosen, phasors, track, 400.7);
+      expect(pending).toBeDefined();
+      expect(pending!()).toEqual(want);
+      expect(helper.shared).toBe(1);
+      const plain = lines(400_000, false).channels;
+      expect(helper.startCarrierResidual([{ samples: plain[0]!, phasorChannel: 0 }], phasors, track, 400.7)).toBeUndefined();
+    } finally {
+      await helper.close();
+    }
+  }, 60_000);
+
+  it('fits the carrier residual here, as fitCarrierResidual does (the oracle), when the worker reports a failed job', async () => {
+    // A helper that listens but fails every job (as runHelperJob reports a job that throws).
+    const dir = mkdtempSync(join(tmpdir(), 'statorscope-residual-'));
+    const failing = join(dir, 'failingWorker.js');
+    writeFileSync(
+      failing,
+      [
+        "const { parentPort, workerData } = require('node:worker_threads');",
+        'Atomics.store(workerData.alive, 0, 1);',
+        "parentPort.on('message', (job) => { Atomics.store(job.flag, 0, 2); Atomics.notify(job.flag, 0); });",
+      ].join('\n'),
+    );
+    const helper = new ParallelDemodulator(failing);
+    try {
+      await started(helper);
+      const { channels, track } = lines(400_000, true);
+      const phasors = demodulateCycles(channels, track, 400_000);
+      const chosen = channels.map((samples, k) => ({ samples, phasorChannel: k }));
+      expect(helper.startCarrierResidual(chosen, phasors, track, 400.7)!()).toEqual(fitCarrierResidual(chosen, phasors, track, 400.7));
+      expect(helper.shared).toBe(0);
+      expect(helper.usable).toBe(false);
     } finally {
       await helper.close();
     }
@@ -99,6 +147,7 @@ describe('ParallelDemodulator', () => {
       await new Promise((r) => setTimeout(r, 300));
       const shared = lines(200_000, true);
       expect(broken.demodulate(shared.channels, shared.track, 200_000)).toEqual(demodulateCycles(shared.channels, shared.track, 200_000));
+      expect(broken.startCarrierResidual([{ samples: shared.channels[0]!, phasorChannel: 0 }], demodulateCycles(shared.channels, shared.track, 200_000), shared.track, 400.7)).toBeUndefined();
       expect(broken.shared).toBe(0);
     } finally {
       await helper.close();
