@@ -1,7 +1,7 @@
 /**
  * The per-cycle sample loops of demodulateCycleRange (IEEE Std 1057 three-parameter fit per
- * carrier cycle): the sine/cosine table with the normal-matrix sums, and the projections of one
- * or two channels on it, which also keep each channel's running extremes (the clipping check's
+ * carrier cycle): the sine/cosine table with the normal-matrix sums, and the projection of two
+ * channels on it (an odd one goes with itself), which also keeps each channel's running extremes (the clipping check's
  * first pass, see CyclePhasors.extremes). Small functions called once per cycle, so that each is
  * optimised whole after a few calls (see demodulateCycleRange).
  */
@@ -104,40 +104,4 @@ export function projectPair(
   ext[o + 5] = yHi;
   ext[o + 6] = yNLo;
   ext[o + 7] = yNHi;
-}
-
-/** Σx·sin, Σx·cos and Σx over one cycle's samples, into sums[0..3); x's running extremes in ext[o..o+4). */
-export function projectOne(
-  x: ArrayLike<number>, start: number, length: number,
-  sinBuf: Float64Array, cosBuf: Float64Array, sums: Float64Array, ext: Float64Array, o: number,
-): void {
-  let xs = 0, xc = 0, x1 = 0;
-  let lo = ext[o]!, hi = ext[o + 1]!, nLo = ext[o + 2]!, nHi = ext[o + 3]!;
-  for (let i = 0; i < length; i++) {
-    const v = x[start + i]!;
-    xs += v * sinBuf[i]!;
-    xc += v * cosBuf[i]!;
-    x1 += v;
-    if (v <= lo) {
-      if (v < lo) {
-        lo = v;
-        nLo = 0;
-      }
-      nLo++;
-    }
-    if (v >= hi) {
-      if (v > hi) {
-        hi = v;
-        nHi = 0;
-      }
-      nHi++;
-    }
-  }
-  sums[0] = xs;
-  sums[1] = xc;
-  sums[2] = x1;
-  ext[o] = lo;
-  ext[o + 1] = hi;
-  ext[o + 2] = nLo;
-  ext[o + 3] = nHi;
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { EXTREMES_STATE, fillCycleTable, projectOne, projectPair } from '../../../core/demod/cycleKernels.js';
+import { EXTREMES_STATE, fillCycleTable, projectPair } from '../../../core/demod/cycleKernels.js';
 import { createRandom } from '../../../core/synth/random.js';
 
 /** Direct sums with Math.sin/Math.cos at every sample (the oracle; common practice, no source). */
@@ -37,7 +37,7 @@ describe('cycle kernels', () => {
     [ss, sc, cc, s1, c1].forEach((want, k) => expect(Math.abs(sums[k]! - want)).toBeLessThan(1e-8));
   });
 
-  it('projectPair and projectOne match direct sums and carry the extremes across calls (seeded, quantised so that samples tie)', () => {
+  it('projectPair matches direct sums, also with one channel as both (an odd channel), and carries the extremes across calls (seeded, quantised so that samples tie)', () => {
     const random = createRandom(7);
     const n = 3000;
     const x = Float32Array.from({ length: n }, () => Math.round(random.normal() * 6) / 4);
@@ -47,21 +47,25 @@ describe('cycle kernels', () => {
     const sinBuf = new Float64Array(length);
     const cosBuf = new Float64Array(length);
     const sums = new Float64Array(6);
-    const ext = new Float64Array(3 * EXTREMES_STATE);
-    for (let ch = 0; ch < 3; ch++) ext.set([Infinity, -Infinity, 0, 0], ch * EXTREMES_STATE);
+    const fresh = (): Float64Array => Float64Array.from([Infinity, -Infinity, 0, 0, Infinity, -Infinity, 0, 0]);
+    const ext = fresh();
+    const extSelf = fresh();
     for (let start = 0; start < n; start += length) {
       fillCycleTable(0.4, w, length, sinBuf, cosBuf, sums);
       projectPair(x, y, start, length, sinBuf, cosBuf, sums, ext, 0);
       const [xs, xc, x1] = directSums(x, start, length, 0.4, w);
       const [ys, yc, y1] = directSums(y, start, length, 0.4, w);
       [xs, xc, x1, ys, yc, y1].forEach((want, k) => expect(Math.abs(sums[k]! - want)).toBeLessThan(1e-9));
-      projectOne(y, start, length, sinBuf, cosBuf, sums, ext, 2 * EXTREMES_STATE);
-      [ys, yc, y1].forEach((want, k) => expect(Math.abs(sums[k]! - want)).toBeLessThan(1e-9));
+      const paired = sums.slice(3, 6);
+      // y with itself: both halves give y's sums as y gets them beside x, bit for bit.
+      projectPair(y, y, start, length, sinBuf, cosBuf, sums, extSelf, 0);
+      expect(sums.slice(0, 3)).toEqual(paired);
+      expect(sums.slice(3, 6)).toEqual(paired);
     }
-    for (const [o, v] of [[0, x], [EXTREMES_STATE, y], [2 * EXTREMES_STATE, y]] as const) {
+    for (const [state, o, v] of [[ext, 0, x], [ext, EXTREMES_STATE, y], [extSelf, 0, y], [extSelf, EXTREMES_STATE, y]] as const) {
       const lo = v.reduce((a, b) => Math.min(a, b), Infinity);
       const hi = v.reduce((a, b) => Math.max(a, b), -Infinity);
-      expect([...ext.subarray(o, o + 4)]).toEqual([lo, hi, v.filter((s) => s === lo).length, v.filter((s) => s === hi).length]);
+      expect([...state.subarray(o, o + 4)]).toEqual([lo, hi, v.filter((s) => s === lo).length, v.filter((s) => s === hi).length]);
     }
   });
 });
