@@ -62,8 +62,11 @@ export function measureLineSkew(
     }
     return { u, v };
   });
-  const kMax = Math.max(0, ...uv.map(({ u }) => Math.max(0, ...u.map(Math.abs))));
-  const spanOf = (u: number[]): number => (u.length ? Math.max(...u) - Math.min(...u) : 0);
+  // Folds, not Math.max(...u): one argument per cycle overflows the call stack past ~1e5 cycles.
+  const maxAbsOf = (u: readonly number[]): number => u.reduce((a, b) => Math.max(a, Math.abs(b)), 0);
+  const kMax = uv.reduce((a, { u }) => Math.max(a, maxAbsOf(u)), 0);
+  const spanOf = (u: readonly number[]): number =>
+    u.length ? u.reduce((a, b) => Math.max(a, b), -Infinity) - u.reduce((a, b) => Math.min(a, b), Infinity) : 0;
   const moving = uv.some(({ u }) => spanOf(u) > 0.2 * kMax);
   const phase = uv.map(({ u, v }) => {
     if (u.length < 2 || !(kMax > 0)) return NaN;
@@ -79,7 +82,7 @@ export function measureLineSkew(
       }
       return Math.atan(suv / suu);
     }
-    const maxU = Math.max(...u.map(Math.abs));
+    const maxU = maxAbsOf(u);
     if (maxU < 0.1 * kMax) return NaN;
     let suu = 0, suv = 0;
     for (let m = 0; m < u.length; m++) {

@@ -249,7 +249,7 @@ export function nullVoltages(input: NullVoltagesInput): NullVoltages {
       }
       m = end + 1;
     }
-    nulls.push(...lineNulls);
+    for (const n of lineNulls) nulls.push(n);
 
     const fromLine = line.maxRmsV !== undefined && line.maxRmsV > 0 ? fraction * line.maxRmsV * 1000 : null;
     const quadLimit = o.quadratureLimitMv ?? o.nullLimitMv ?? fromLine;

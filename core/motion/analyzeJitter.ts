@@ -264,7 +264,7 @@ export function huntingFinding(h: HuntingTone, roles: readonly string[] = []): F
  * than 16 points.
  */
 function chooseSegmentLength(lengths: readonly number[]): number | null {
-  const longest = Math.max(0, ...lengths);
+  const longest = lengths.reduce((a, b) => Math.max(a, b), 0);
   if (longest < 16) return null;
   let best: { len: number; count: number } | null = null;
   for (let len = 65536; len >= 16; len /= 2) {
