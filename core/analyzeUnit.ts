@@ -210,11 +210,13 @@ function plainLine(member: { role: Role }, phasors: CyclePhasors, k: number, psi
     maxPeak = Math.max(maxPeak, mag);
     quad.push(im[m]! * c - re[m]! * s);
   }
-  quad.sort((a, b) => a - b);
+  // A typed-array sort is numeric and several times faster than a comparator (one quadrature
+  // per carrier cycle: 5e5 of them on a long record at a high carrier, measured).
+  const sorted = Float64Array.from(quad).sort();
   return {
     role: formatRole(member.role),
     maxRmsV: maxPeak / Math.SQRT2,
-    quadratureMv: quad.length ? (quad[quad.length >> 1]! / Math.SQRT2) * 1000 : NaN,
+    quadratureMv: sorted.length ? (sorted[sorted.length >> 1]! / Math.SQRT2) * 1000 : NaN,
     harmonicMv: null,
     thdPct: null,
   };

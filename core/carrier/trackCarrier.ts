@@ -149,8 +149,9 @@ export function trackCarrier(
   const lastCentre = cycles.firstSample[m - 1]! + (cycles.lengthSamples[m - 1]! - 1) / 2;
   const startHz = carrierFrequencyHzAt(track, firstCentre);
   const endHz = carrierFrequencyHzAt(track, lastCentre);
-  amplitudes.sort((a, b) => a - b);
-  const referenceRmsV = amplitudes.length ? amplitudes[amplitudes.length >> 1]! / Math.SQRT2 : NaN;
+  // Numeric typed-array sort: one amplitude per cycle (see plainLine in analyzeUnit).
+  const sortedAmplitudes = Float64Array.from(amplitudes).sort();
+  const referenceRmsV = sortedAmplitudes.length ? sortedAmplitudes[sortedAmplitudes.length >> 1]! / Math.SQRT2 : NaN;
 
   if (poly.degree > 1 && Math.abs(endHz - startHz) > 0.01) {
     findings.push(

@@ -29,7 +29,7 @@ export function detectFoldBack(deg: readonly number[]): { line: number; peaks: [
   if (n < 16) return undefined;
   const step: number[] = [];
   for (let m = 1; m < n; m++) step.push(((deg[m]! - deg[m - 1]! + 540) % 360) - 180);
-  const mags = step.map(Math.abs).sort((a, b) => a - b);
+  const mags = Float64Array.from(step, Math.abs).sort();
   const typical = mags[mags.length >> 1]!;
   let travel = 0;
   for (const d of step) travel += Math.abs(d);

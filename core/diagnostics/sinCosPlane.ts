@@ -61,15 +61,17 @@ const ARCMIN_PER_RAD = (180 * 60) / Math.PI;
 
 /** Electrical angle covered by a set of angles: 360° minus the largest gap between them (degrees). */
 export function angleCoverageDeg(angleDeg: ArrayLike<number>): number {
-  const a: number[] = [];
+  const all = new Float64Array(angleDeg.length);
+  let n = 0;
   for (let i = 0; i < angleDeg.length; i++) {
     const v = +angleDeg[i]!;
-    if (Number.isFinite(v)) a.push(((v % 360) + 360) % 360);
+    if (Number.isFinite(v)) all[n++] = ((v % 360) + 360) % 360;
   }
-  if (a.length === 0) return 0;
-  a.sort((x, y) => x - y);
-  let gap = a[0]! + 360 - a[a.length - 1]!;
-  for (let i = 1; i < a.length; i++) gap = Math.max(gap, a[i]! - a[i - 1]!);
+  if (n === 0) return 0;
+  // Numeric typed-array sort: one angle per carrier cycle (a comparator sort took ~0.2 s on 5e5).
+  const a = all.subarray(0, n).sort();
+  let gap = a[0]! + 360 - a[n - 1]!;
+  for (let i = 1; i < n; i++) gap = Math.max(gap, a[i]! - a[i - 1]!);
   return 360 - gap;
 }
 

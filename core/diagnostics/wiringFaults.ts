@@ -324,8 +324,8 @@ function chooseThreeLineHypothesis(
     const g = se / ee;
     const misfit = Math.sqrt(Math.max(0, sa - 2 * g * se + g * g * ee) / ee);
     if (misfit > FIT_TOLERANCE) continue;
-    radii.sort((x, y) => x - y);
-    const radiusV = radii[radii.length >> 1]!;
+    const sortedRadii = Float64Array.from(radii).sort();
+    const radiusV = sortedRadii[sortedRadii.length >> 1]!;
     if (Number.isFinite(refPeakV) && !plausible(radiusV / refPeakV)) continue;
     const dead = levels[k] !== undefined && levels[k]! < DEAD_LEVEL_FRACTION * kMax && Math.abs(g) < DEAD_LEVEL_FRACTION * 2;
     if (!dead && Math.abs(g - 1) < HEALTHY_SCALE_TOLERANCE) {
