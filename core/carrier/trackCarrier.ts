@@ -5,6 +5,7 @@ import { CaptureError } from '../model/errors.js';
 import { finding, type Finding } from '../model/findings.js';
 import { carrierFrequencyHzAt, carrierPhaseAt, constantCarrierTrack, type CarrierTrack } from './carrierTrack.js';
 import { fitPolynomialBic } from './fitPhasePolynomial.js';
+import { selectKth } from '../dsp/selectKth.js';
 
 /**
  * Carrier (excitation) frequency and phase over the whole record.
@@ -149,9 +150,8 @@ export function trackCarrier(
   const lastCentre = cycles.firstSample[m - 1]! + (cycles.lengthSamples[m - 1]! - 1) / 2;
   const startHz = carrierFrequencyHzAt(track, firstCentre);
   const endHz = carrierFrequencyHzAt(track, lastCentre);
-  // Numeric typed-array sort: one amplitude per cycle (see plainLine in analyzeUnit).
-  const sortedAmplitudes = Float64Array.from(amplitudes).sort();
-  const referenceRmsV = sortedAmplitudes.length ? sortedAmplitudes[sortedAmplitudes.length >> 1]! / Math.SQRT2 : NaN;
+  // The upper median by selection: one amplitude per cycle (see plainLine in analyzeUnit).
+  const referenceRmsV = amplitudes.length ? selectKth(Float64Array.from(amplitudes), amplitudes.length >> 1) / Math.SQRT2 : NaN;
 
   if (poly.degree > 1 && Math.abs(endHz - startHz) > 0.01) {
     findings.push(

@@ -1,3 +1,4 @@
+import { selectKth } from '../dsp/selectKth.js';
 /** Canonical line phases in degrees: E(S1−S3) ∝ sin θ, E(S3−S2) ∝ sin(θ+120°), E(S2−S1) ∝ sin(θ+240°). */
 const SYNCHRO_PHASE_DEG = [0, 120, 240] as const;
 
@@ -29,8 +30,7 @@ export function detectFoldBack(deg: readonly number[]): { line: number; peaks: [
   if (n < 16) return undefined;
   const step: number[] = [];
   for (let m = 1; m < n; m++) step.push(((deg[m]! - deg[m - 1]! + 540) % 360) - 180);
-  const mags = Float64Array.from(step, Math.abs).sort();
-  const typical = mags[mags.length >> 1]!;
+  const typical = selectKth(Float64Array.from(step, Math.abs), step.length >> 1);
   let travel = 0;
   for (const d of step) travel += Math.abs(d);
   if (!(typical > 0.05) || travel < 90) return undefined;

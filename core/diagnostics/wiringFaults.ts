@@ -4,6 +4,7 @@ import { finding, type Finding } from '../model/findings.js';
 import { canonicalLineValues, maxAbsOver, spanOver, type CanonicalLines } from './canonicalLineValues.js';
 import { detectFoldBack, peakAnglesDeg } from './detectFoldBack.js';
 import { fitPairScale } from './fitPairScale.js';
+import { selectKth } from '../dsp/selectKth.js';
 
 /**
  * Stator wiring and probe faults of one unit, read from its per-cycle line phasors.
@@ -324,8 +325,7 @@ function chooseThreeLineHypothesis(
     const g = se / ee;
     const misfit = Math.sqrt(Math.max(0, sa - 2 * g * se + g * g * ee) / ee);
     if (misfit > FIT_TOLERANCE) continue;
-    const sortedRadii = Float64Array.from(radii).sort();
-    const radiusV = sortedRadii[sortedRadii.length >> 1]!;
+    const radiusV = selectKth(Float64Array.from(radii), radii.length >> 1);
     if (Number.isFinite(refPeakV) && !plausible(radiusV / refPeakV)) continue;
     const dead = levels[k] !== undefined && levels[k]! < DEAD_LEVEL_FRACTION * kMax && Math.abs(g) < DEAD_LEVEL_FRACTION * 2;
     if (!dead && Math.abs(g - 1) < HEALTHY_SCALE_TOLERANCE) {

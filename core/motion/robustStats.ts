@@ -3,6 +3,8 @@
  * the typical sample interval of a time axis. NaN values are skipped everywhere.
  */
 
+import { selectKth } from '../dsp/selectKth.js';
+
 /** Median of the finite values of `x[start, end)`; NaN when there are none. */
 export function medianOf(x: ArrayLike<number>, start = 0, end = x.length): number {
   const lo = Math.max(0, start);
@@ -14,11 +16,16 @@ export function medianOf(x: ArrayLike<number>, start = 0, end = x.length): numbe
     if (Number.isFinite(xi)) v[n++] = xi;
   }
   if (n === 0) return NaN;
-  // Typed-array sort is numeric (ascending) and much faster than Array#sort with a comparator.
-  const s = v.subarray(0, n).sort();
+  const s = v.subarray(0, n);
   const m = n >> 1;
-  return n % 2 === 1 ? s[m]! : 0.5 * (s[m - 1]! + s[m]!);
+  const upper = selectKth(s, m);
+  if (n % 2 === 1) return upper;
+  // After the selection every value before m is at most s[m]: the lower middle is their largest.
+  let lower = -Infinity;
+  for (let i = 0; i < m; i++) if (s[i]! > lower) lower = s[i]!;
+  return 0.5 * (lower + upper);
 }
+
 
 /**
  * Scaled median absolute deviation, 1.4826 · median(|x − median x|): a consistent estimate of

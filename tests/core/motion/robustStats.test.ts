@@ -25,3 +25,15 @@ describe('robust statistics and the line fit', () => {
     expect(fitLine(t, x, 3, 3).count).toBe(0);
   });
 });
+
+describe('medianOf against a full sort (the oracle: sorted order statistics)', () => {
+  it('medianOf equals the middle of a sort (mean of the two middle values for an even count) on 2e5 seeded values', () => {
+    const rnd = createRandom(100);
+    for (const n of [200_000, 200_001]) {
+      const x = Float64Array.from({ length: n }, () => Math.round(rnd.normal() * 1000) / 7);
+      const s = Float64Array.from(x).sort();
+      const m = n >> 1;
+      expect(medianOf(x)).toBe(n % 2 === 1 ? s[m] : 0.5 * (s[m - 1]! + s[m]!));
+    }
+  });
+});
