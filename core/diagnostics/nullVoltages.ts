@@ -136,6 +136,9 @@ export function nullAnglesDeg(role: string): readonly [number, number] | undefin
 
 const wrap180 = (d: number): number => d - 360 * Math.round(d / 360);
 
+/** Fraction of maxOffsetDeg by which the angle may stray past it before a run at a null ends (common practice, no source). */
+const NULL_WINDOW_HYSTERESIS = 0.25;
+
 export function nullVoltages(input: NullVoltagesInput): NullVoltages {
   const o = input.options ?? {};
   const maxSweep = o.maxSweepDeg ?? 0.01;
@@ -170,6 +173,7 @@ export function nullVoltages(input: NullVoltagesInput): NullVoltages {
   for (const line of input.lines) {
     const angles = nullAnglesDeg(line.role);
     if (!angles) throw new RangeError(`nullVoltages: "${line.role}" is not a stator line role`);
+    // Which null each cycle is nearer (-1: no angle) and how far off it is.
     const which = new Int8Array(nCycles).fill(-1);
     const offset = new Float64Array(nCycles);
     for (let m = 0; m < nCycles; m++) {
@@ -177,21 +181,23 @@ export function nullVoltages(input: NullVoltagesInput): NullVoltages {
       if (!Number.isFinite(t) || !Number.isFinite(travel[m]!)) continue;
       const d = wrap180(t - angles[0]);
       const k = Math.abs(d) <= 90 ? 0 : 1;
-      const off = k === 0 ? d : wrap180(d - 180);
-      if (Math.abs(off) <= maxOffset) {
-        which[m] = k;
-        offset[m] = off;
-      }
+      which[m] = k;
+      offset[m] = k === 0 ? d : wrap180(d - 180);
     }
+    // A run of cycles at one null starts within maxOffset of it and lasts until the angle leaves
+    // maxOffset·(1 + NULL_WINDOW_HYSTERESIS): with one threshold, angle noise at the window's edge
+    // split a crossing into a second, spurious "null" read ~maxOffset off (seen on a 10 kHz
+    // crossing at 36°/s: 204 mV of in-phase at 0.99°).
+    const stayOffset = maxOffset * (1 + NULL_WINDOW_HYSTERESIS);
     const lineNulls: NullReading[] = [];
     let m = 0;
     while (m < nCycles) {
-      if (which[m] === -1) {
+      if (which[m] === -1 || Math.abs(offset[m]!) > maxOffset) {
         m++;
         continue;
       }
       let end = m;
-      while (end + 1 < nCycles && which[end + 1] === which[m]) end++;
+      while (end + 1 < nCycles && which[end + 1] === which[m] && Math.abs(offset[end + 1]!) <= stayOffset) end++;
       const k = which[m]!;
       // Seed at the cycle nearest the null; grow towards the nearer neighbour while still slow.
       let seed = m;

@@ -93,6 +93,22 @@ describe('nullVoltages — in-phase, quadrature, harmonics and total at the null
     near(reading.harmonicMv, (h1 / Math.SQRT2) * 1000, 'harmonics');
   });
 
+  it('one crossing gives one null when the angle flickers across the edge of the window around it (noise at maxOffsetDeg)', () => {
+    // The slow turn above through a ±0.3° window; two cycles just past its edge are moved back
+    // inside by 0.0005°, as angle noise does. One crossing took place (by construction).
+    const chain = runUnitChain(spec({ type: 'ramp', startDeg: -0.5, degPerS: 2 }, lines));
+    // Angles come wrapped to [0°, 360°): −0.5° reads 359.5°.
+    const deg = Float64Array.from(chain.angle.deg, (d) => d - 360 * Math.round(d / 360));
+    const edge = deg.findIndex((d, i) => i > 0 && d > 0.3 && deg[i - 1]! <= 0.3);
+    expect(edge).toBeGreaterThan(0);
+    deg[edge + 1] = 0.2995;
+    deg[edge + 2] = 0.2998;
+    const flickering = { ...chain, angle: { ...chain.angle, deg } };
+    const n = nullsOf(flickering, { maxOffsetDeg: 0.3 }).nulls.filter((x) => x.role === 's1s3');
+    expect(n).toHaveLength(1);
+    near(n[0]!.inPhaseMv, 0, 'in-phase at the crossing');
+  });
+
   it('fast turn (120°/s, 0.3° per cycle): every crossing is skipped and an info finding says why', () => {
     const chain = runUnitChain(spec({ type: 'ramp', startDeg: 5, degPerS: 120 }, lines, { durationS: 3.2 }));
     const r = nullsOf(chain);
