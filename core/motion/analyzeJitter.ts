@@ -235,12 +235,16 @@ export function analyzeJitter(
   };
 }
 
-/** The `hunting` finding (design vocabulary) for a tone found by {@link analyzeJitter}. */
-export function huntingFinding(h: HuntingTone, roles: readonly string[] = []): Finding {
+/**
+ * The `hunting` finding (design vocabulary) for a tone found by {@link analyzeJitter}, worded for
+ * the records it was found on (at rest, or turning at a steady speed).
+ */
+export function huntingFinding(h: HuntingTone, roles: readonly string[] = [], source: JitterResult['source'] = 'stationary'): Finding {
+  const expected = source === 'ramp' ? 'turn at a steady speed' : 'be at rest';
   return finding(
     'hunting',
     'warning',
-    `The angle oscillates at ${h.frequencyHz.toFixed(2)} Hz with ${h.amplitudeArcmin.toFixed(2)}′ peak amplitude while the shaft should be at rest (${h.prominenceDb.toFixed(0)} dB above the noise floor, sustained over ${Math.floor(h.cycles)} cycles).`,
+    `The angle oscillates at ${h.frequencyHz.toFixed(2)} Hz with ${h.amplitudeArcmin.toFixed(2)}′ peak amplitude while the shaft should ${expected} (${h.prominenceDb.toFixed(0)} dB above the noise floor, sustained over ${Math.floor(h.cycles)} cycles).`,
     {
       advice:
         'A receiver that oscillates about its commanded angle is hunting: check its damper (electrical or inertia damper), the load and the servo loop gain.',

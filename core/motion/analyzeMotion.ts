@@ -95,6 +95,6 @@ export function analyzeMotion(t: ArrayLike<number>, unwrappedDeg: ArrayLike<numb
     jitterSegments.filter((s): s is MotionSegment => s !== null),
     opts.jitter,
   );
-  if (jitter?.hunting) findings.push(huntingFinding(jitter.hunting, roles));
+  if (jitter?.hunting) findings.push(huntingFinding(jitter.hunting, roles, jitter.source));
   return { segments, velocityDegPerS, jitter, steps, thresholds, findings };
 }

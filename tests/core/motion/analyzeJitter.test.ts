@@ -116,5 +116,10 @@ describe('analyzeJitter(t, deg, segments)', () => {
     expect(f.roles).toEqual(['s1s3']);
     expect(rel(f.figures!.frequencyHz!, 3.1)).toBeLessThan(0.02);
     expect(rel(f.figures!.amplitudeArcmin!, 2)).toBeLessThan(0.1);
+    // Worded for the records it was found on: a shaft at rest, or one turning steadily.
+    expect(f.message).toContain('should be at rest');
+    const turning = huntingFinding(j.hunting!, ['s1s3'], 'ramp');
+    expect(turning.message).toContain('should turn at a steady speed');
+    expect(turning.message).not.toContain('at rest');
   });
 });
