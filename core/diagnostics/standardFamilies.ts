@@ -68,9 +68,17 @@ export interface FamilyQuery {
 }
 
 /**
- * The standard family nearest in ratio to `ratio` (same kind) within the tolerance, or null.
- * Among families whose ratios are equally near (e.g. 115 V / 90 V at 60 Hz and at 400 Hz), the
- * one closest in log-frequency, then in log-excitation, wins.
+ * A family is matched only at a carrier within this factor of its own frequency, when the
+ * carrier is known: a 10 kHz resolver of ratio 0.454 is not a "400 Hz" family's unit (common
+ * practice, no source).
+ */
+export const FAMILY_FREQUENCY_FACTOR = 2;
+
+/**
+ * The standard family nearest in ratio to `ratio` (same kind) within the tolerance, and within
+ * FAMILY_FREQUENCY_FACTOR of the measured frequency when one is given, or null. Among families
+ * whose ratios are equally near (e.g. 115 V / 90 V at 60 Hz and at 400 Hz), the one closest in
+ * log-frequency, then in log-excitation, wins.
  */
 export function matchStandardFamily(ratio: number, query: FamilyQuery): FamilyMatch | null {
   if (!(ratio > 0) || !Number.isFinite(ratio)) return null;
@@ -83,6 +91,7 @@ export function matchStandardFamily(ratio: number, query: FamilyQuery): FamilyMa
     if (f.kind !== query.kind) continue;
     const deviationPct = (ratio / f.nominalRatio - 1) * 100;
     if (Math.abs(deviationPct) > tolerance) continue;
+    if (logGap(query.frequencyHz, f.frequencyHz) > Math.log(FAMILY_FREQUENCY_FACTOR)) continue;
     // Ratios within 1e-9 count as equal, so the tie-breakers decide.
     const key: [number, number, number] = [Math.round(Math.abs(deviationPct) * 1e9), logGap(query.frequencyHz, f.frequencyHz), logGap(query.excitationRmsV, f.excitationRmsV)];
     if (!bestKey || key[0] < bestKey[0] || (key[0] === bestKey[0] && (key[1] < bestKey[1] || (key[1] === bestKey[1] && key[2] < bestKey[2])))) {

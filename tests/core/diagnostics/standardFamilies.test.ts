@@ -33,4 +33,14 @@ describe('matchStandardFamily(ratio, query)', () => {
     expect(matchStandardFamily(0.455, { kind: 'resolver' })!.family.outputMaxRmsV).toBe(11.8);
     expect(matchStandardFamily(1.0, { kind: 'synchro' })).toBeNull();
   });
+
+  it('a family is matched only near its own carrier: the 400 Hz TR 0.454 resolver family at 380 Hz and 790 Hz, not at 10 kHz or 60 Hz (its frequency is part of what it is)', () => {
+    const at = (frequencyHz: number) => matchStandardFamily(0.4538, { kind: 'resolver', frequencyHz })?.family.name ?? null;
+    expect(at(380)).toBe('26 V / 11.8 V, 400 Hz (TR 0.454)');
+    expect(at(790)).toBe('26 V / 11.8 V, 400 Hz (TR 0.454)');
+    expect(at(10_000)).toBeNull();
+    expect(at(60)).toBeNull();
+    // Without a measured frequency the ratio alone decides, as before.
+    expect(matchStandardFamily(0.4538, { kind: 'resolver' })!.family.name).toBe('26 V / 11.8 V, 400 Hz (TR 0.454)');
+  });
 });
