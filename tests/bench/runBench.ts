@@ -1,7 +1,8 @@
 /**
- * npm run bench [-- --max-rows N] [-- --repeat N] [-- --no-anchor] [-- --no-batch]: bundled with esbuild (so the
+ * npm run bench [-- --max-rows N] [-- --repeat N] [-- --no-anchor] [-- --no-batch] [-- --no-high-carrier]: bundled with esbuild (so the
  * timings are the code users run, not a transpile-on-load loader), times each pipeline stage and
- * the CLI end to end on seeded captures of 10^4 to 10^7 rows x 4 channels, runs the pandas +
+ * the CLI end to end on seeded captures of 10^4 to 10^7 rows x 4 channels (the largest again at
+ * a 10 kHz carrier: long records at a high carrier have 25 times the cycles), runs the pandas +
  * numpy yardstick (tests/bench/pandasAnchor.py under /usr/bin/python3) on the same files in the
  * same run (each tool --repeat times, default 3, alternating; medians reported), the reader on one
  * thread and a bare byte-level parser (bareParser.ts, the machine's speed today) for MB/s, and a
@@ -35,6 +36,8 @@ interface Run {
 
 interface Row {
   rows: number;
+  /** Carrier of the capture, hertz (400, or 10 000 for the long-record, high-carrier case). */
+  carrierHz: number;
   fileMB: number;
   importS: number;
   importMBps: number;
@@ -100,10 +103,10 @@ async function measureParsers(path: string, rows: number, fileMB: number, repeat
   return { oneCore: median(oneCore), bare: median(bare) };
 }
 
-async function measure(rows: number, withAnchor: boolean, repeats: number): Promise<Row> {
-  const path = await benchCapturePath(rows);
+async function measure(rows: number, withAnchor: boolean, repeats: number, carrierHz = 400): Promise<Row> {
+  const path = await benchCapturePath(rows, carrierHz);
   const fileMB = statSync(path).size / 1e6;
-  const jsonOut = join(benchFolder(), `out-${rows}.json`);
+  const jsonOut = join(benchFolder(), `out-${rows}-${carrierHz}.json`);
 
   let t = performance.now();
   // The CLI's own reader, with the CLI's bundled parse worker (the bench bundle lives elsewhere).
@@ -152,6 +155,7 @@ async function measure(rows: number, withAnchor: boolean, repeats: number): Prom
   const anchorImportS = withAnchor ? median(anchorRuns.map((r) => (JSON.parse(r.stdout) as { importS: number }).importS)) : null;
   return {
     rows,
+    carrierHz,
     fileMB,
     importS,
     importMBps: fileMB / importS,
@@ -225,6 +229,11 @@ async function main(): Promise<void> {
     results.push(await measure(rows, withAnchor, repeats));
     printTable(results);
   }
+  // Long records at a high carrier: the same rows with 25 times the carrier cycles (per-cycle work).
+  if (maxRows >= 10_000_000 && !process.argv.includes('--no-high-carrier')) {
+    results.push(await measure(10_000_000, withAnchor, repeats, 10_000));
+    printTable(results);
+  }
   const batch = process.argv.includes('--no-batch') ? [] : await measureBatch();
   if (batch.length) printBatch(batch);
   mkdirSync('bench-results', { recursive: true });
@@ -235,10 +244,10 @@ async function main(): Promise<void> {
 function printTable(results: Row[]): void {
   const f = (v: number | null, d: number, w: number): string => (v === null ? '-' : v.toFixed(d)).padStart(w);
   const header =
-    'rows       file MB  import s  MB/s  1-core MB/s  bare MB/s  carrier s  demod s  Msamp/s  angle s  diag s  analyze s | CLI wall s  RSS MB | pandas wall s  RSS MB  (import s) | wall ratio  RSS ratio';
+    'rows            file MB  import s  MB/s  1-core MB/s  bare MB/s  carrier s  demod s  Msamp/s  angle s  diag s  analyze s | CLI wall s  RSS MB | pandas wall s  RSS MB  (import s) | wall ratio  RSS ratio';
   const lines = results.map((r) =>
     [
-      String(r.rows).padEnd(9),
+      `${r.rows}${r.carrierHz === 400 ? '' : ` @${r.carrierHz / 1000}k`}`.padEnd(14),
       f(r.fileMB, 1, 8),
       f(r.importS, 3, 9),
       f(r.importMBps, 0, 5),
