@@ -1,7 +1,9 @@
 import type { CarrierTrack } from '../carrier/carrierTrack.js';
 import { finding, type Finding } from '../model/findings.js';
-import { SYNCHRO_LINE_OF } from '../model/roles.js';
 import { carrierPhaseFn, defaultHarmonicCount, segmentHarmonicSums } from './lineHarmonics.js';
+import { nullAnglesDeg } from './nullAngles.js';
+
+export { nullAnglesDeg };
 
 /**
  * Null voltages of each stator line at its nulls: a static null (the shaft parked at, or within
@@ -122,17 +124,6 @@ export const TYPICAL_NULL_LIMITS_MV: Readonly<Record<string, { readonly lowMv: n
   '26 V / 11.8 V': { lowMv: 20, highMv: 40, source: 'from memory' },
   '115 V / 90 V': { lowMv: 50, highMv: 150, source: 'from memory' },
 };
-
-/** The two null angles of a line role (degrees), or undefined for a role without nulls. */
-export function nullAnglesDeg(role: string): readonly [number, number] | undefined {
-  const base = role.slice(role.lastIndexOf('.') + 1).toLowerCase();
-  if (base === 'sin') return [0, 180];
-  if (base === 'cos') return [90, 270];
-  const map = SYNCHRO_LINE_OF[base];
-  if (!map) return undefined;
-  const a = map.line * 60;
-  return [a, a + 180];
-}
 
 const wrap180 = (d: number): number => d - 360 * Math.round(d / 360);
 
