@@ -43,7 +43,8 @@ export interface AnalysisEngine {
  * (wiring, angle, unit figures, motion, harmonics, nulls, plane; a CT's error) → units together
  * (two-speed, tracking) → accuracy run → shaft facts → capture quality. Bad data becomes
  * findings; a capture that cannot be analysed throws one CaptureError. `engine` may run the
- * demodulation elsewhere (another thread); it must give the results this thread would.
+ * demodulation and the carrier residual fit elsewhere (another thread); it must give the
+ * results this thread would.
  */
 export function analyzeCapture(capture: Capture, options: AnalyzeOptions = {}, engine: AnalysisEngine = {}): Analysis {
   const demodulate = engine.demodulate ?? demodulateCycles;
