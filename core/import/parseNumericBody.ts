@@ -114,6 +114,8 @@ export class NumericBodyParser {
   private readonly stampExponents = new Int16Array(CLEAN_ROWS_PER_CALL);
   /** Calls of the clean-row fast path so far (the first ones are short, see there). */
   private cleanCalls = 0;
+  /** True when the last call of the fast path stopped only because its block was full. */
+  private cleanBlockFull = false;
 
   /**
    * With `held`, per-line reports are kept there (see BodyEvent) instead of going to `findings`;
@@ -227,13 +229,10 @@ export class NumericBodyParser {
       if (fastRows) {
         this.rows = row;
         this.line = line;
-        // A block at a time (see CLEAN_ROWS_PER_CALL); a short block stopped at a row the fast
-        // path does not take, at the capacity or at the end of the region.
-        for (;;) {
-          const before = this.rows;
-          p = this.parseCleanRows(buf, p, end);
-          if (p >= end || this.rows - before < CLEAN_ROWS_PER_CALL) break;
-        }
+        // A block at a time (see CLEAN_ROWS_PER_CALL), until a row the fast path does not
+        // take, the capacity or the end of the region.
+        do p = this.parseCleanRows(buf, p, end);
+        while (this.cleanBlockFull);
         row = this.rows;
         line = this.line;
         if (p >= end) break;
@@ -536,6 +535,7 @@ export class NumericBodyParser {
       break;
     }
     if (n > 0) timebase!.addRun(stamps, exponents, timeFactor, 0, n, runStart, runStart + lineShift);
+    this.cleanBlockFull = row === stop && stop < this.capacity && p < end;
     this.rows = row;
     this.line = line;
     return p;

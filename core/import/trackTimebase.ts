@@ -41,9 +41,14 @@ export class TimebaseTracker {
   // Interval bounds from printed resolution (see fit()): anchors chosen in the first rows.
   private readonly window = new Float64Array(3 * ANCHOR_WINDOW);
   private windowCount = 0;
-  private upperAnchorRow = -1;
+  // No anchor yet while negative. Initialised as a non-integer, so that the field holds a double
+  // from the start: the anchors' rows come from a Float64Array, and a field that changes from a
+  // small integer to a double changes the tracker's map, which deoptimised the parse loop
+  // compiled against the old one at the end of every later call (intermittently, ~200-400 times
+  // per run, seen with --trace-deopt).
+  private upperAnchorRow = -0.5;
   private upperAnchorHi = -0;
-  private lowerAnchorRow = -1;
+  private lowerAnchorRow = -0.5;
   private lowerAnchorLo = -0;
   private intervalMin = -Infinity;
   private intervalMax = Infinity;
