@@ -43,6 +43,41 @@ describe('clippedFraction(samples, n, samplesPerPeriod)', () => {
     }
   });
 
+  it('matches the direct count on runs of every length at every offset from the stride (common practice, no source)', () => {
+    // Runs of 1..3·minRun samples on the top and bottom codes, placed at every offset, with
+    // runs of a middle value between them: the strided search must find exactly the long ones.
+    const rnd = createRandom(21);
+    for (const minRun of [4, 5, 7, 12]) {
+      const period = minRun * 20;
+      for (let trial = 0; trial < 30; trial++) {
+        const values: number[] = [];
+        while (values.length < 2000) {
+          const len = 1 + Math.floor(rnd.uniform() * 3 * minRun);
+          const pick = rnd.uniform();
+          const v = pick < 0.35 ? 1 : pick < 0.7 ? -1 : Math.round(rnd.uniform() * 100) / 200;
+          for (let k = 0; k < len; k++) values.push(v);
+        }
+        const x = Float32Array.from(values);
+        expect(clippedFraction(x, x.length, period)).toBe(oracle(x, minRun));
+      }
+    }
+  });
+
+  it('matches the direct count on a long clean 12-bit sine, where the top codes recur every cycle (common practice, no source)', () => {
+    const n = 200_000;
+    for (const period of [100, 400]) {
+      const x = new Float32Array(n);
+      for (let i = 0; i < n; i++) x[i] = Math.round(Math.sin((2 * Math.PI * i) / period) * 0.98 * 2047) / 2047;
+      const minRun = Math.max(4, Math.round(period / 20));
+      expect(clippedFraction(x, n, period)).toBe(oracle(x, minRun));
+      // And clipped at 90 %: flat tops of about 0.29 period per cycle.
+      const c = x.map((v) => Math.max(-0.9, Math.min(0.9, v)));
+      const got = clippedFraction(c, n, period);
+      expect(got).toBe(oracle(c, minRun));
+      expect(got).toBeGreaterThan(0.25);
+    }
+  });
+
   it('measures the extremes itself when the given ones are for another length', () => {
     const x = Float32Array.from([1, 1, 1, 1, 1, 0, -0.5, 0.2, 1, 1, 1, 1]);
     const stale = measureSampleExtremes(x, 0, 6);
