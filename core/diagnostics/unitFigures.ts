@@ -113,10 +113,18 @@ export function unitFigures(input: UnitFiguresInput): UnitFigures {
     return basis;
   });
   const solve = (lines: readonly UnitLinePhasors[]) => {
-    const theta = Float64Array.from({ length: nCycles }, (_, m) => +input.angleDeg[m]! * DEG);
+    const theta = new Float64Array(nCycles);
+    for (let m = 0; m < nCycles; m++) theta[m] = +input.angleDeg[m]! * DEG;
+    // sin θ and cos θ once per pass for all the lines, not once per line (the same values).
+    const sinTheta = new Float64Array(nCycles);
+    const cosTheta = new Float64Array(nCycles);
 
-    const accumulate = (): LineSums[] =>
-      lines.map((line, k) => {
+    const accumulate = (): LineSums[] => {
+      for (let m = 0; m < nCycles; m++) {
+        sinTheta[m] = Math.sin(theta[m]!);
+        cosTheta[m] = Math.cos(theta[m]!);
+      }
+      return lines.map((line, k) => {
         const [alpha, beta] = bases[k]!;
         const s: LineSums = { n: 0, sp: 0, spp: 0, szr: 0, szi: 0, spzr: 0, spzi: 0 };
         for (let m = 0; m < nCycles; m++) {
@@ -124,7 +132,7 @@ export function unitFigures(input: UnitFiguresInput): UnitFigures {
           const zi = +line.quadratureV[m]!;
           const t = theta[m]!;
           if (!Number.isFinite(zr) || !Number.isFinite(zi) || !Number.isFinite(t)) continue;
-          const p = alpha * Math.sin(t) + beta * Math.cos(t);
+          const p = alpha * sinTheta[m]! + beta * cosTheta[m]!;
           s.n++;
           s.sp += p;
           s.spp += p * p;
@@ -135,6 +143,7 @@ export function unitFigures(input: UnitFiguresInput): UnitFigures {
         }
         return s;
       });
+    };
 
     // Rotation: per-line regression z = slope·p + intercept (normal equations, equilibrated
     // Cholesky). The angle the patterns are evaluated at was decoded with the naive phase, which
