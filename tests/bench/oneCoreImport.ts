@@ -17,4 +17,7 @@ async function main(): Promise<void> {
   process.stdout.write(`${JSON.stringify({ importS, rows: capture.sampleCount })}\n`);
 }
 
-void main();
+main().catch((error: unknown) => {
+  process.stderr.write(`oneCoreImport: ${error instanceof Error ? error.message : String(error)}\n`);
+  process.exitCode = 1;
+});
